@@ -1,0 +1,72 @@
+import express from 'express';
+import session from 'express-session';
+import connectPgSimple from 'connect-pg-simple';
+import helmet from 'helmet';
+import passport from 'passport';
+import rateLimit from 'express-rate-limit';
+import fs from 'node:fs';
+import path from 'node:path';
+import pg from 'pg';
+import type { AppContext } from './context.js';
+import { configurePassport } from './auth/passport.js';
+import { csrfSynchronisedProtection } from './auth/csrf.js';
+import { AppError, apiNotFound, errorHandler } from './http/errors.js';
+import { healthRouter } from './health/health.router.js';
+import { areas } from './routes.js';
+
+/** Builds the Express app without listening (tests start it in-process with supertest). */
+export function createApp(context: AppContext, opts: { staticDir?: string } = {}) {
+  const { config } = context;
+  const app = express();
+  app.locals.ctx = context;
+  app.disable('x-powered-by');
+  if (config.TRUST_PROXY) app.set('trust proxy', 1);
+  app.use(helmet({ contentSecurityPolicy: { directives: { 'img-src': ["'self'", 'data:', 'blob:'] } } }));
+  app.use(express.json({ limit: '2mb' }));
+
+  app.use(healthRouter.prefix, healthRouter.router);
+
+  const PgStore = connectPgSimple(session);
+  const sessionPool = new pg.Pool({ connectionString: config.DATABASE_URL, max: 5, connectionTimeoutMillis: 3000 });
+  sessionPool.on('error', () => undefined); // reconnects on next use; errors surface per request
+  app.locals.sessionPool = sessionPool;
+  const idleMs = config.IDLE_MINUTES * 60_000;
+  app.use(
+    '/api',
+    session({
+      name: 'alveolog.sid',
+      store: new PgStore({ pool: sessionPool, tableName: 'session', pruneSessionInterval: 15 * 60 }),
+      secret: config.SESSION_SECRET,
+      resave: false,
+      saveUninitialized: false,
+      rolling: true,
+      cookie: { httpOnly: true, sameSite: 'strict', secure: config.NODE_ENV === 'production' && !!config.APP_URL?.startsWith('https'), maxAge: idleMs, path: '/' },
+    }),
+  );
+  // Idle time-out for shared ward computers (OWASP ASVS V3.3.2): a session unused for IDLE_MINUTES ends.
+  app.use('/api', (req, _res, next) => {
+    const s = req.session as unknown as { lastSeen?: number; passport?: unknown } | undefined;
+    if (s?.passport && s.lastSeen && Date.now() - s.lastSeen > idleMs) {
+      return req.session.destroy(() => next(new AppError(401, 'session_expired', `you were signed out after ${config.IDLE_MINUTES} minutes without activity`, { hint: 'sign in again' })));
+    }
+    if (s?.passport) s.lastSeen = Date.now();
+    next();
+  });
+  configurePassport(context);
+  app.use('/api', passport.initialize());
+  app.use('/api', passport.session());
+  app.use('/api/auth/login', rateLimit({ windowMs: 15 * 60_000, limit: config.LOGIN_RATE_LIMIT, standardHeaders: 'draft-7', legacyHeaders: false,
+    handler: (_req, _res, next) => next(new AppError(429, 'too_many_attempts', 'too many sign-in attempts from this computer', { hint: 'wait 15 minutes and try again' })) }));
+  app.use('/api', csrfSynchronisedProtection);
+
+  for (const a of areas) app.use(a.prefix, a.router);
+  app.use('/api', apiNotFound);
+
+  const staticDir = opts.staticDir;
+  if (staticDir && fs.existsSync(path.join(staticDir, 'index.html'))) {
+    app.use(express.static(staticDir, { index: false, maxAge: '1h' }));
+    app.get('/{*splat}', (_req, res) => res.sendFile(path.join(staticDir, 'index.html')));
+  }
+  app.use(errorHandler);
+  return app;
+}

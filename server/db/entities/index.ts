@@ -1,0 +1,13 @@
+// Every entity, listed as imported classes (globs fail under vitest; see DEVELOPERS.md).
+import { Site } from './site.js';
+import { Unit } from './unit.js';
+import { User } from './user.js';
+import { UserSite } from './user-site.js';
+import { AuthToken } from './auth-token.js';
+import { AuditEntry } from './audit-entry.js';
+import { MailMessage } from './mail-message.js';
+import { Setting } from './setting.js';
+import { Job } from './job.js';
+
+export { Site, Unit, User, UserSite, AuthToken, AuditEntry, MailMessage, Setting, Job };
+export const entities = [Site, Unit, User, UserSite, AuthToken, AuditEntry, MailMessage, Setting, Job];

@@ -1,0 +1,4 @@
+// Every migration, in order, as imported classes (a glob cannot load .ts under vitest).
+import { Foundation1796163103776 } from './1796163103776-Foundation.js';
+
+export const migrations = [Foundation1796163103776];

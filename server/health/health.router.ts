@@ -1,0 +1,20 @@
+import { area } from '../http/route.js';
+import { ctx } from '../context.js';
+
+const a = area('/api/health');
+
+/** Liveness and database reachability; 503 while PostgreSQL is down (the pool reconnects by itself). */
+a.get('/', 'public', async (req, res) => {
+  try {
+    await Promise.race([
+      ctx(req).ds.query('SELECT 1'),
+      new Promise((_, reject) => setTimeout(() => reject(new Error('timeout')), 2000)),
+    ]);
+    return { status: 'ok', database: 'ok' };
+  } catch {
+    res.status(503);
+    return { status: 'degraded', database: 'unavailable' };
+  }
+});
+
+export const healthRouter = a;
