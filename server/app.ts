@@ -2,7 +2,6 @@ import express from 'express';
 import session from 'express-session';
 import connectPgSimple from 'connect-pg-simple';
 import helmet from 'helmet';
-import passport from 'passport';
 import rateLimit from 'express-rate-limit';
 import fs from 'node:fs';
 import path from 'node:path';
@@ -52,7 +51,8 @@ export function createApp(context: AppContext, opts: { staticDir?: string } = {}
     if (s?.passport) s.lastSeen = Date.now();
     next();
   });
-  configurePassport(context);
+  const passport = configurePassport(context);
+  app.locals.passport = passport;
   app.use('/api', passport.initialize());
   app.use('/api', passport.session());
   app.use('/api/auth/login', rateLimit({ windowMs: 15 * 60_000, limit: config.LOGIN_RATE_LIMIT, standardHeaders: 'draft-7', legacyHeaders: false,

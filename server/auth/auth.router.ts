@@ -1,5 +1,5 @@
 import type { Request } from 'express';
-import passport from 'passport';
+import type passport from 'passport';
 import { authenticator } from 'otplib';
 import { area, currentUser, parse } from '../http/route.js';
 import { AppError } from '../http/errors.js';
@@ -25,7 +25,7 @@ a.get('/csrf', 'public', (req) => ({ csrfToken: generateToken(req, true) }));
 a.post('/login', 'public', async (req, res) => {
   parse(LoginSchema, req.body, 'sign-in form');
   const user = await new Promise<SessionUser>((resolve, reject) => {
-    passport.authenticate('local', (err: unknown, u: SessionUser | false) => {
+    (req.app.locals.passport as passport.PassportStatic).authenticate('local', (err: unknown, u: SessionUser | false) => {
       if (err) return reject(err);
       if (!u) return reject(new AppError(401, 'invalid_credentials', 'the e-mail or password is not right', { hint: 'check both and try again' }));
       resolve(u);

@@ -16,9 +16,11 @@ const invalid = () => new AppError(401, 'invalid_credentials', 'the e-mail or pa
  * Sign-in with passport-local: bcrypt check, temporary lockout after repeated failures,
  * TOTP when the account has it, every outcome in the audit table.
  */
-export function configurePassport(app: AppContext): void {
+export function configurePassport(app: AppContext): passport.PassportStatic {
   const { ds, config } = app;
-  passport.use(
+  // One Passport instance per app (tests build several apps with different settings).
+  const instance = new passport.Passport() as passport.PassportStatic;
+  instance.use(
     new LocalStrategy({ usernameField: 'email', passwordField: 'password', passReqToCallback: true }, async (req, email, password, done) => {
       try {
         const ip = req.ip ?? null;
@@ -63,12 +65,13 @@ export function configurePassport(app: AppContext): void {
       }
     }),
   );
-  passport.serializeUser((user, done) => done(null, (user as { id: string }).id));
-  passport.deserializeUser(async (id: string, done) => {
+  instance.serializeUser((user, done) => done(null, (user as { id: string }).id));
+  instance.deserializeUser(async (id: string, done) => {
     try {
       done(null, (await loadSessionUser(ds, id, config.DEMO_MODE)) ?? false);
     } catch (err) {
       done(err);
     }
   });
+  return instance;
 }
