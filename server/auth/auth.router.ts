@@ -14,13 +14,13 @@ import { appUrl } from '../http/app-url.js';
 
 const a = area('/api/auth');
 
-function me(req: Request, user: SessionUser): MeResponse {
+function me(req: Request, user: SessionUser, freshToken = false): MeResponse {
   const { config } = ctx(req);
-  return { user, csrfToken: generateToken(req, true), demoMode: config.DEMO_MODE, idleMinutes: config.IDLE_MINUTES };
+  return { user, csrfToken: generateToken(req, freshToken), demoMode: config.DEMO_MODE, idleMinutes: config.IDLE_MINUTES };
 }
 
 /** A fresh CSRF token for the sign-in form (the session exists from here on). */
-a.get('/csrf', 'public', (req) => ({ csrfToken: generateToken(req, true) }));
+a.get('/csrf', 'public', (req) => ({ csrfToken: generateToken(req) }));
 
 a.post('/login', 'public', async (req, res) => {
   parse(LoginSchema, req.body, 'sign-in form');
@@ -35,7 +35,7 @@ a.post('/login', 'public', async (req, res) => {
   await new Promise<void>((resolve, reject) => req.login(user, (err) => (err ? reject(err) : resolve())));
   (req.session as unknown as { lastSeen: number }).lastSeen = Date.now();
   await audit(ctx(req).ds, { action: 'sign-in', actorId: user.id, actorEmail: user.email, ip: req.ip ?? null });
-  return me(req, user);
+  return me(req, user, true);
 });
 
 a.post('/logout', 'signed-in', async (req, res) => {

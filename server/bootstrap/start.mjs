@@ -2,7 +2,7 @@
 // Node built-ins only until ensureNodeModules() has run.
 import path from 'node:path';
 import fs from 'node:fs';
-import { ROOT, log, fail, ensureNodeModules, cluster, ensureDatabase, dbEnv, ensureSecret, runTs, spawnTs, clientIsStale, buildClient } from './lib.mjs';
+import { log, fail, ensureNodeModules, cluster, ensureDatabase, dbEnv, ensureSecret, runTs, spawnTs, clientIsStale, buildClient } from './lib.mjs';
 
 const t0 = Date.now();
 try {

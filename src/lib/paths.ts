@@ -1,0 +1,9 @@
+/** Every client URL pattern in one place. */
+export const paths = {
+  home: '/',
+  signIn: '/sign-in',
+  resetPassword: '/reset-password',
+  acceptInvitation: '/accept-invitation',
+  account: '/account',
+  admin: { users: '/admin/users', sites: '/admin/sites', mailbox: '/admin/mailbox' },
+};

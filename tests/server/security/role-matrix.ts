@@ -1,0 +1,49 @@
+/**
+ * Who may call each API route, written out from the product's role table (DESIGN.md, "Roles at
+ * a glance") independently of the route declarations the server's guard reads. Every route the
+ * router declares must appear here: a new route without a row fails role-matrix.test.ts.
+ *
+ * Values: 'public' (no sign-in), 'signed-in' (any role), or the roles allowed. 'chair' stands
+ * for a committee member flagged as chair (admins always pass where the chair passes).
+ */
+export type Who = 'admin' | 'abstractor' | 'analyst' | 'committee' | 'chair' | 'researcher';
+export type Rule = 'public' | 'signed-in' | readonly Who[];
+
+export interface MatrixRow {
+  rule: Rule;
+  /** Do not call this route as an allowed user in the generic sweep (it would end the session, etc.). */
+  skipAllowed?: boolean;
+}
+
+const ALL_CASE_READERS = ['admin', 'abstractor', 'analyst', 'committee', 'chair'] as const;
+const CASE_WRITERS = ['admin', 'abstractor'] as const;
+
+export const MATRIX: Record<string, MatrixRow> = {
+  // Foundation
+  'GET /api/health': { rule: 'public' },
+  'GET /api/auth/csrf': { rule: 'public' },
+  'POST /api/auth/login': { rule: 'public', skipAllowed: true },
+  'POST /api/auth/logout': { rule: 'signed-in', skipAllowed: true },
+  'GET /api/auth/me': { rule: 'signed-in' },
+  'POST /api/auth/password-reset': { rule: 'public', skipAllowed: true },
+  'POST /api/auth/password-reset/confirm': { rule: 'public' },
+  'POST /api/auth/invitation/accept': { rule: 'public' },
+  'POST /api/auth/totp/setup': { rule: 'signed-in', skipAllowed: true },
+  'POST /api/auth/totp/confirm': { rule: 'signed-in' },
+  'GET /api/users': { rule: ['admin'] },
+  'GET /api/users/:id': { rule: ['admin'] },
+  'POST /api/users': { rule: ['admin'] },
+  'PATCH /api/users/:id': { rule: ['admin'] },
+  'POST /api/users/:id/password-reset': { rule: ['admin'] },
+  'GET /api/sites': { rule: ALL_CASE_READERS },
+  'POST /api/sites': { rule: ['admin'] },
+  'PATCH /api/sites/:id': { rule: ['admin'] },
+  'POST /api/sites/:id/units': { rule: ['admin'] },
+  'PATCH /api/sites/:id/units/:unitId': { rule: ['admin'] },
+  'GET /api/mail': { rule: ['admin'] },
+  'GET /api/jobs/:id': { rule: 'signed-in' },
+  'POST /api/jobs/:id/cancel': { rule: 'signed-in' },
+  'POST /api/jobs/:id/retry': { rule: 'signed-in' },
+};
+
+export { ALL_CASE_READERS, CASE_WRITERS };
