@@ -52,7 +52,7 @@ export interface TestApp {
 }
 
 /** Builds the app in-process on this run's database (a clone of the seeded template). */
-export async function startTestApp(overrides: Record<string, string> = {}): Promise<TestApp> {
+export async function startTestApp(overrides: Record<string, string> = {}, opts: { staticDir?: string } = {}): Promise<TestApp> {
   const env = { ...inject('testDbEnv'), ...overrides };
   const smtpDs = await createDataSource(env.DATABASE_URL, 2).initialize();
   const smtp = await startSmtpStandIn(smtpDs, 0);
@@ -60,7 +60,7 @@ export async function startTestApp(overrides: Record<string, string> = {}): Prom
   const ds = await createDataSource(config.DATABASE_URL, 5).initialize();
   const mailer = createMailer(config);
   const context: AppContext = { ds, readDs: ds, config, mailer };
-  const app = createApp(context);
+  const app = createApp(context, { staticDir: opts.staticDir });
   const signedIn = new Map<DemoKey, Client>();
   return {
     app, ds, config, context,
