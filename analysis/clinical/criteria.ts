@@ -18,9 +18,9 @@ export const inSpan = (span: DaySpan, day: number): boolean =>
 export function describeSpan(span: DaySpan): string {
   if (span.start === null && span.end === null) return 'in the record';
   if (span.start !== null && span.end !== null && span.start === span.end) return `on ${isoFromDayNumber(span.start)}`;
-  const from = span.start === null ? 'the start' : isoFromDayNumber(span.start);
-  const to = span.end === null ? 'the end' : isoFromDayNumber(span.end);
-  return `between ${from} and ${to}`;
+  if (span.end === null) return `on or after ${isoFromDayNumber(span.start as number)}`;
+  if (span.start === null) return `on or before ${isoFromDayNumber(span.end)}`;
+  return `between ${isoFromDayNumber(span.start)} and ${isoFromDayNumber(span.end)}`;
 }
 
 const MAX_LISTED = 3;
@@ -46,8 +46,10 @@ export function evaluateCriterion<O extends DatedObservation>(args: {
   threshold: string;
   /** Name of the evidence, for the missing reason: "temperature". */
   evidence: string;
+  /** Name qualifying observations outside the span in the missing reason (default true). */
+  mentionOutside?: boolean;
 }): CriterionResult {
-  const { id, label, candidates, span, qualifies, describe, threshold, evidence } = args;
+  const { id, label, candidates, span, qualifies, describe, threshold, evidence, mentionOutside = true } = args;
   const sorted = [...candidates].sort((a, b) => a.day - b.day || a.obs.id.localeCompare(b.obs.id));
   const inside = sorted.filter((d) => inSpan(span, d.day));
   const hits = inside.filter(qualifies);
@@ -64,7 +66,7 @@ export function evaluateCriterion<O extends DatedObservation>(args: {
       observationIds: [],
     };
   }
-  const outside = sorted.filter(qualifies);
+  const outside = mentionOutside ? sorted.filter(qualifies) : [];
   return {
     id,
     label,
