@@ -1,31 +1,11 @@
 // `npm start`: everything a fresh machine needs, then the app at http://127.0.0.1:3000 (PORT overrides).
 // Node built-ins only until ensureNodeModules() has run.
-import path from 'node:path';
-import fs from 'node:fs';
-import { log, fail, ensureNodeModules, cluster, ensureDatabase, dbEnv, ensureSecret, runTs, spawnTs, clientIsStale, buildClient } from './lib.mjs';
+import { log, fail, runTs, spawnTs, clientIsStale, buildClient } from './lib.mjs';
+import { prepareMain } from './main-env.mjs';
 
 const t0 = Date.now();
 try {
-  ensureNodeModules();
-  const pg = cluster({ name: 'main', port: Number(process.env.ALVEOLOG_PG_PORT ?? 54321) });
-  const { startedHere } = pg.start();
-  const roles = ensureDatabase(pg, 'alveolog');
-  const port = Number(process.env.PORT ?? 3000);
-  const env = {
-    ...dbEnv(pg, 'alveolog', roles),
-    NODE_ENV: process.env.NODE_ENV ?? 'production',
-    PORT: String(port),
-    APP_URL: process.env.APP_URL ?? `http://127.0.0.1:${port}`,
-    SESSION_SECRET: process.env.SESSION_SECRET ?? ensureSecret(pg.dir, 'session.secret'),
-    IDENTIFIER_HASH_SECRET: process.env.IDENTIFIER_HASH_SECRET ?? ensureSecret(pg.dir, 'identifier-hash.secret'),
-    DEMO_MODE: process.env.DEMO_MODE ?? 'true',
-    SEED_DEMO: process.env.DEMO_MODE === 'false' ? 'false' : 'true',
-    SMTP_STANDIN: process.env.SMTP_HOST ? 'false' : 'true',
-    SMTP_PORT: process.env.SMTP_PORT ?? String(Number(process.env.ALVEOLOG_PG_PORT ?? 54321) + 1000),
-    DATA_DIR: process.env.DATA_DIR ?? path.join(pg.dir, 'files'),
-    LOG_FILE: process.env.LOG_FILE ?? path.join(pg.dir, 'server.log'),
-  };
-  fs.mkdirSync(env.DATA_DIR, { recursive: true, mode: 0o700 });
+  const { pg, env, startedHere, port } = prepareMain();
   runTs('server/db/setup.ts', env);
   if (clientIsStale()) buildClient();
   const server = spawnTs('server/main.ts', env);
