@@ -8,6 +8,9 @@ import { AuditEntry } from './audit-entry.js';
 import { MailMessage } from './mail-message.js';
 import { Setting } from './setting.js';
 import { Job } from './job.js';
+import { SurgicalCase } from './surgical-case.js';
+import { TherapyEpisodeRow } from './therapy-episode.js';
+import { OutcomeEventRow } from './outcome-event.js';
 
-export { Site, Unit, User, UserSite, AuthToken, AuditEntry, MailMessage, Setting, Job };
-export const entities = [Site, Unit, User, UserSite, AuthToken, AuditEntry, MailMessage, Setting, Job];
+export { Site, Unit, User, UserSite, AuthToken, AuditEntry, MailMessage, Setting, Job, SurgicalCase, TherapyEpisodeRow, OutcomeEventRow };
+export const entities = [Site, Unit, User, UserSite, AuthToken, AuditEntry, MailMessage, Setting, Job, SurgicalCase, TherapyEpisodeRow, OutcomeEventRow];

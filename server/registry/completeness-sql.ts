@@ -1,0 +1,95 @@
+/**
+ * The one completeness query, as SQL generated from the rules in shared/registry/completeness.ts:
+ * the view `case_completeness` (created by the Registry migration from this text) lists, per
+ * case, the missing fields of each section. Worklists, cohorts, month close and data quality
+ * join it instead of writing their own rules. When the rules change, a new migration recreates
+ * the view from `caseCompletenessViewSql()`; tests/server/registry/views.test.ts fails until then.
+ */
+import {
+  COMPLETENESS_SECTIONS,
+  ELIGIBLE_CASE_RULES,
+  EPISODE_REQUIRED_FIELDS,
+  EVENT_REQUIRED_FIELDS,
+  EXCLUDED_CASE_RULES,
+  type CaseFieldRule,
+  type CompletenessSection,
+} from '../../shared/registry/completeness.js';
+import { CASE_FIELDS } from '../../shared/registry/case.js';
+import { fieldMeta } from '../../shared/registry/meta.js';
+import { CASE_COLUMNS, THERAPY_COLUMNS } from './columns.js';
+
+const lit = (s: string) => `'${s.replace(/'/g, "''")}'`;
+const sectionOf = (f: CaseFieldRule['field']): CompletenessSection => {
+  const s = fieldMeta(CASE_FIELDS[f])?.section;
+  return s && s !== 'registry' ? s : 'patient';
+};
+
+function emptyTest(field: CaseFieldRule['field']): string {
+  const { column, kind } = CASE_COLUMNS[field];
+  return kind === 'text' ? `NULLIF(c.${column}, '') IS NULL` : `c.${column} IS NULL`;
+}
+
+function ruleSql(r: CaseFieldRule, population: 'eligible' | 'excluded'): string {
+  const who = population === 'eligible' ? 'c.eligible IS DISTINCT FROM false' : 'c.eligible = false';
+  const conds = [who];
+  if (r.when) conds.push(`c.${CASE_COLUMNS[r.when.field].column} = ${typeof r.when.equals === 'string' ? lit(r.when.equals) : String(r.when.equals)}`);
+  const missing = r.mustBe === true ? `c.${CASE_COLUMNS[r.field].column} IS DISTINCT FROM true` : emptyTest(r.field);
+  return `CASE WHEN ${conds.join(' AND ')} AND ${missing} THEN ${lit(r.field)} END`;
+}
+
+const EPISODE_COLUMN: Record<(typeof EPISODE_REQUIRED_FIELDS)[number], string> = {
+  modality: THERAPY_COLUMNS.modality.column,
+  startPostoperativeDay: THERAPY_COLUMNS.startPostoperativeDay.column,
+  sessionsPrescribed: THERAPY_COLUMNS.sessionsPrescribed.column,
+  sessionsDelivered: THERAPY_COLUMNS.sessionsDelivered.column,
+};
+const EVENT_COLUMN: Record<(typeof EVENT_REQUIRED_FIELDS)[number], string> = {
+  type: 'type',
+  onsetPostoperativeDay: 'onset_postoperative_day',
+  clavienDindo: 'clavien_dindo',
+};
+
+function sectionArray(section: CompletenessSection): string {
+  const parts: string[] = [];
+  for (const r of ELIGIBLE_CASE_RULES) if (sectionOf(r.field) === section) parts.push(ruleSql(r, 'eligible'));
+  for (const r of EXCLUDED_CASE_RULES) if (sectionOf(r.field) === section) parts.push(ruleSql(r, 'excluded'));
+  let sql = `array_remove(ARRAY[${parts.length ? parts.join(',\n      ') : 'NULL'}]::text[], NULL)`;
+  if (section === 'therapy') {
+    const active = `FROM therapy_episodes e WHERE e.case_id = c.id AND e.removed_at IS NULL`;
+    sql = `array_remove(ARRAY[${[
+      ...parts,
+      `CASE WHEN c.eligible IS DISTINCT FROM false AND c.therapy_given = true AND NOT EXISTS (SELECT 1 ${active}) THEN 'therapy.episodes' END`,
+      `CASE WHEN c.eligible IS DISTINCT FROM false AND c.therapy_given = false AND EXISTS (SELECT 1 ${active}) THEN 'therapyGiven' END`,
+    ].join(',\n      ')}]::text[], NULL)
+      || COALESCE((SELECT array_agg('therapy.' || e.id || '.' || f.name ORDER BY e.created_at, e.id, f.ord)
+           FROM therapy_episodes e CROSS JOIN LATERAL (VALUES ${EPISODE_REQUIRED_FIELDS.map((f, i) => `(${i}, ${lit(f)}, e.${EPISODE_COLUMN[f]} IS NULL)`).join(', ')}) AS f(ord, name, missing)
+           WHERE e.case_id = c.id AND e.removed_at IS NULL AND f.missing AND c.eligible IS DISTINCT FROM false), '{}')`;
+  }
+  if (section === 'outcomes') {
+    sql += `
+      || COALESCE((SELECT array_agg('outcomes.' || o.id || '.' || f.name ORDER BY o.created_at, o.id, f.ord)
+           FROM outcome_events o CROSS JOIN LATERAL (VALUES ${EVENT_REQUIRED_FIELDS.map((f, i) => `(${i}, ${lit(f)}, o.${EVENT_COLUMN[f]} IS NULL)`).join(', ')}) AS f(ord, name, missing)
+           WHERE o.case_id = c.id AND o.removed_at IS NULL AND f.missing AND c.eligible IS DISTINCT FROM false), '{}')`;
+  }
+  return sql;
+}
+
+const col = (s: CompletenessSection) => `missing_${s.replace('-', '_')}`;
+
+/** The body of `CREATE VIEW case_completeness AS ...`. */
+export function caseCompletenessSelectSql(): string {
+  const inner = COMPLETENESS_SECTIONS.map((s) => `    ${sectionArray(s)} AS ${col(s)}`).join(',\n');
+  const all = COMPLETENESS_SECTIONS.map(col).join(' || ');
+  return `SELECT x.case_id, x.site_id, x.status, ${COMPLETENESS_SECTIONS.map(col).join(', ')},
+  ${all} AS missing,
+  cardinality(${all}) = 0 AS complete
+FROM (
+  SELECT c.id AS case_id, c.site_id, c.status,
+${inner}
+  FROM surgical_cases c
+) x`;
+}
+
+export function caseCompletenessViewSql(): string {
+  return `CREATE VIEW case_completeness AS\n${caseCompletenessSelectSql()}`;
+}
