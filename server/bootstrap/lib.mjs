@@ -144,7 +144,7 @@ export function portIsFree(port) {
  * A private PostgreSQL cluster on 127.0.0.1. `fast` turns fsync off (test clusters only).
  * The superuser password is generated once and kept owner-only inside the data folder.
  */
-export function cluster({ name, port, fast = false }) {
+export function cluster({ name, port, fast = false, noInit = false }) {
   const bin = ensurePostgres();
   const dir = clusterDir(name);
   const data = path.join(dir, 'pgdata');
@@ -153,6 +153,7 @@ export function cluster({ name, port, fast = false }) {
 
   function init() {
     if (fs.existsSync(path.join(data, 'PG_VERSION'))) return false;
+    if (noInit) throw new Error(`cluster '${name}' has no data folder yet`);
     fs.mkdirSync(dir, { recursive: true });
     if (isRoot) run('chown', [pgUser(), path.dirname(dir)]);
     if (isRoot) run('chown', [pgUser(), dir]);
@@ -285,4 +286,25 @@ export function clientIsStale() {
 export function buildClient() {
   log('building the client ...');
   run(process.execPath, [path.join(ROOT, 'node_modules', 'vite', 'bin', 'vite.js'), 'build', '--logLevel', 'warn'], { cwd: ROOT });
+}
+
+/**
+ * A hot standby of `primary` on loopback (pg_basebackup -R: streaming replication), for the
+ * read-replica routes. Created once; started and stopped like any cluster.
+ */
+export function standby(primary, { name, port }) {
+  const c = cluster({ name, port, fast: true, noInit: true });
+  function create() {
+    if (fs.existsSync(path.join(c.data, 'PG_VERSION'))) return;
+    fs.mkdirSync(c.dir, { recursive: true });
+    if (isRoot) run('chown', [pgUser(), c.dir]);
+    fs.copyFileSync(path.join(primary.dir, 'superuser.secret'), path.join(c.dir, 'superuser.secret'));
+    const pass = path.join(c.dir, '.pgpass');
+    fs.writeFileSync(pass, `127.0.0.1:${primary.port}:*:postgres:${primary.superPassword()}\n`, { mode: 0o600 });
+    if (isRoot) run('chown', [pgUser(), pass]);
+    asPg(path.join(primary.bin, 'pg_basebackup'), ['-h', '127.0.0.1', '-p', String(primary.port), '-U', 'postgres', '-D', c.data, '-R', '-X', 'stream', '-c', 'fast'], {
+      quiet: true, env: { ...process.env, PGPASSFILE: pass },
+    });
+  }
+  return { ...c, create, start: () => { create(); return c.start(); } };
 }
