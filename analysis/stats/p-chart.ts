@@ -16,7 +16,7 @@ import * as check from './validate.js';
  * @param options.baseline how many leading subgroups set the centre, 1..points.length; default all
  * @throws AnalysisInputError for no subgroup, an invalid count (negative, fractional, events above
  *   total, total 0) or a baseline out of range
- * @example pChart([{ events: 2, total: 20 }, { events: 4, total: 20 }]).centre // 0.15; limits 0 to 0.38954
+ * @example pChart([{ events: 2, total: 20 }, { events: 4, total: 20 }]).centre // 0.15; limits 0 to 0.389531
  */
 export function pChart(points: readonly Readonly<Count>[], options?: { readonly baseline?: number }): ControlChart {
   const fn = 'pChart';

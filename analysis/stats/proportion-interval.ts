@@ -26,7 +26,7 @@ export const PROPORTION_METHODS: readonly ProportionMethod[] = ['wilson', 'exact
  * @param options.level confidence level in (0, 1), default 0.95
  * @throws AnalysisInputError for a negative or fractional count, events above total, a total of 0,
  *   an unknown method or a level outside (0, 1)
- * @example proportionInterval(81, 263) // { estimate: 0.30798, lower: 0.25531, upper: 0.36624 } (Newcombe 1998)
+ * @example proportionInterval(81, 263) // { estimate: 0.307985, lower: 0.255289, upper: 0.366210 } (Newcombe 1998: 0.2553-0.3662)
  */
 export function proportionInterval(
   events: number,

@@ -17,7 +17,7 @@ import * as check from './validate.js';
  * @param options.level confidence level in (0, 1), default 0.95
  * @throws AnalysisInputError for a negative or fractional observed count, an expected count <= 0
  *   or not finite, or a level outside (0, 1)
- * @example standardizedRatio(10, 8) // { estimate: 1.25, lower: 0.59943, upper: 2.29880 }
+ * @example standardizedRatio(10, 8) // { estimate: 1.25, lower: 0.599424, upper: 2.298795 }
  */
 export function standardizedRatio(observed: number, expected: number, options?: { readonly level?: number }): Interval {
   const fn = 'standardizedRatio';
