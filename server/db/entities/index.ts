@@ -11,6 +11,8 @@ import { Job } from './job.js';
 import { SurgicalCase } from './surgical-case.js';
 import { TherapyEpisodeRow } from './therapy-episode.js';
 import { OutcomeEventRow } from './outcome-event.js';
+import { ImportJob } from './import-job.js';
+import { MappingPreset } from './mapping-preset.js';
 
-export { Site, Unit, User, UserSite, AuthToken, AuditEntry, MailMessage, Setting, Job, SurgicalCase, TherapyEpisodeRow, OutcomeEventRow };
-export const entities = [Site, Unit, User, UserSite, AuthToken, AuditEntry, MailMessage, Setting, Job, SurgicalCase, TherapyEpisodeRow, OutcomeEventRow];
+export { Site, Unit, User, UserSite, AuthToken, AuditEntry, MailMessage, Setting, Job, SurgicalCase, TherapyEpisodeRow, OutcomeEventRow, ImportJob, MappingPreset };
+export const entities = [Site, Unit, User, UserSite, AuthToken, AuditEntry, MailMessage, Setting, Job, SurgicalCase, TherapyEpisodeRow, OutcomeEventRow, ImportJob, MappingPreset];

@@ -1,5 +1,6 @@
 // Every migration, in order, as imported classes (a glob cannot load .ts under vitest).
 import { Foundation1796163103776 } from './1796163103776-Foundation.js';
 import { Registry1796163954334 } from './1796163954334-Registry.js';
+import { Imports1796164096770 } from './1796164096770-Imports.js';
 
-export const migrations = [Foundation1796163103776, Registry1796163954334];
+export const migrations = [Foundation1796163103776, Registry1796163954334, Imports1796164096770];
