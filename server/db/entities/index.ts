@@ -13,8 +13,9 @@ import { TherapyEpisodeRow } from './therapy-episode.js';
 import { OutcomeEventRow } from './outcome-event.js';
 import { ImportJob } from './import-job.js';
 import { MappingPreset } from './mapping-preset.js';
+import { committeeEntities } from './committee.js';
 import { ExportRequest } from './export-request.js';
 import { ExportDownload } from './export-download.js';
 
 export { Site, Unit, User, UserSite, AuthToken, AuditEntry, MailMessage, Setting, Job, SurgicalCase, TherapyEpisodeRow, OutcomeEventRow, ImportJob, MappingPreset, ExportRequest, ExportDownload };
-export const entities = [Site, Unit, User, UserSite, AuthToken, AuditEntry, MailMessage, Setting, Job, SurgicalCase, TherapyEpisodeRow, OutcomeEventRow, ImportJob, MappingPreset, ExportRequest, ExportDownload];
+export const entities = [Site, Unit, User, UserSite, AuthToken, AuditEntry, MailMessage, Setting, Job, SurgicalCase, TherapyEpisodeRow, OutcomeEventRow, ImportJob, MappingPreset, ExportRequest, ExportDownload, ...committeeEntities];
