@@ -12,6 +12,7 @@ import { csrfSynchronisedProtection } from './auth/csrf.js';
 import { AppError, apiNotFound, errorHandler } from './http/errors.js';
 import { healthRouter } from './health/health.router.js';
 import { areas } from './routes.js';
+import './jobs/housekeeping.js';
 
 /** Builds the Express app without listening (tests start it in-process with supertest). */
 export function createApp(context: AppContext, opts: { staticDir?: string } = {}) {
