@@ -6,4 +6,12 @@ export const paths = {
   acceptInvitation: '/accept-invitation',
   account: '/account',
   admin: { users: '/admin/users', sites: '/admin/sites', mailbox: '/admin/mailbox' },
+  cases: {
+    list: '/cases',
+    create: '/cases/new',
+    detail: (id: string) => `/cases/${id}`,
+    edit: (id: string) => `/cases/${id}/edit`,
+  },
+  worklist: '/worklist',
+  dictionary: '/dictionary',
 };

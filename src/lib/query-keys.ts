@@ -8,4 +8,12 @@ export const queryKeys = {
   sites: { all: ['sites'] as const, list: () => ['sites', 'list'] as const },
   mail: { list: () => ['mail', 'list'] as const },
   jobs: { detail: (id: string) => ['jobs', id] as const },
+  cases: {
+    all: ['cases'] as const,
+    list: (params: Record<string, unknown>) => ['cases', 'list', params] as const,
+    detail: (id: string) => ['cases', 'detail', id] as const,
+    audit: (id: string, includeReads = false) => ['cases', 'detail', id, 'audit', { includeReads }] as const,
+  },
+  worklist: { all: ['worklist'] as const, list: (params: Record<string, unknown>) => ['worklist', params] as const },
+  dictionary: { all: ['dictionary'] as const },
 };
