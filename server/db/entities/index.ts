@@ -16,6 +16,7 @@ import { MappingPreset } from './mapping-preset.js';
 import { committeeEntities } from './committee.js';
 import { ExportRequest } from './export-request.js';
 import { ExportDownload } from './export-download.js';
+import { SavedCohort } from './saved-cohort.js';
 
-export { Site, Unit, User, UserSite, AuthToken, AuditEntry, MailMessage, Setting, Job, SurgicalCase, TherapyEpisodeRow, OutcomeEventRow, ImportJob, MappingPreset, ExportRequest, ExportDownload };
-export const entities = [Site, Unit, User, UserSite, AuthToken, AuditEntry, MailMessage, Setting, Job, SurgicalCase, TherapyEpisodeRow, OutcomeEventRow, ImportJob, MappingPreset, ExportRequest, ExportDownload, ...committeeEntities];
+export { Site, Unit, User, UserSite, AuthToken, AuditEntry, MailMessage, Setting, Job, SurgicalCase, TherapyEpisodeRow, OutcomeEventRow, ImportJob, MappingPreset, ExportRequest, ExportDownload, SavedCohort };
+export const entities = [Site, Unit, User, UserSite, AuthToken, AuditEntry, MailMessage, Setting, Job, SurgicalCase, TherapyEpisodeRow, OutcomeEventRow, ImportJob, MappingPreset, ExportRequest, ExportDownload, SavedCohort, ...committeeEntities];
