@@ -17,6 +17,7 @@ import { committeeEntities } from './committee.js';
 import { ExportRequest } from './export-request.js';
 import { ExportDownload } from './export-download.js';
 import { SavedCohort } from './saved-cohort.js';
+import { qualityEntities } from './quality.js';
 
 export { Site, Unit, User, UserSite, AuthToken, AuditEntry, MailMessage, Setting, Job, SurgicalCase, TherapyEpisodeRow, OutcomeEventRow, ImportJob, MappingPreset, ExportRequest, ExportDownload, SavedCohort };
-export const entities = [Site, Unit, User, UserSite, AuthToken, AuditEntry, MailMessage, Setting, Job, SurgicalCase, TherapyEpisodeRow, OutcomeEventRow, ImportJob, MappingPreset, ExportRequest, ExportDownload, SavedCohort, ...committeeEntities];
+export const entities = [Site, Unit, User, UserSite, AuthToken, AuditEntry, MailMessage, Setting, Job, SurgicalCase, TherapyEpisodeRow, OutcomeEventRow, ImportJob, MappingPreset, ExportRequest, ExportDownload, SavedCohort, ...committeeEntities, ...qualityEntities];
