@@ -31,8 +31,12 @@ const ConfigSchema = z.object({
   LOG_FILE: z.string().optional(),
   UPLOAD_MAX_MB: z.coerce.number().min(0.001).default(20),
   IMPORT_MAX_ROWS: z.coerce.number().int().min(1).default(100_000),
+  /** Rows per INSERT while an import commits (progress is reported after each batch). */
+  IMPORT_BATCH_ROWS: z.coerce.number().int().min(1).max(5000).default(500),
   UPLOAD_RETENTION_HOURS: z.coerce.number().min(0).default(24),
   EXPORT_RETENTION_HOURS: z.coerce.number().min(0).default(72),
+  /** Largest xlsx export (rows x columns); above it the request is offered as CSV (limit measured by tests/bench/exports.bench.ts). */
+  EXPORT_XLSX_MAX_CELLS: z.coerce.number().int().min(1).default(15_000_000),
   VERIFY_WAIT_DAYS: z.coerce.number().int().min(1).default(14),
   SESSION_LIMIT_MINUTES: z.coerce.number().min(0).default(60),
   TRUST_PROXY: bool.default(false),

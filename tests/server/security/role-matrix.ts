@@ -44,6 +44,17 @@ export const MATRIX: Record<string, MatrixRow> = {
   'GET /api/jobs/:id': { rule: 'signed-in' },
   'POST /api/jobs/:id/cancel': { rule: 'signed-in' },
   'POST /api/jobs/:id/retry': { rule: 'signed-in' },
+  // Research exports (DESIGN.md: export requests — admin approves; analyst and researcher request; abstractor and committee no).
+  'GET /api/exports/variables': { rule: ['admin', 'analyst', 'researcher'] },
+  'POST /api/exports': { rule: ['analyst', 'researcher'] },
+  'GET /api/exports': { rule: ['admin', 'analyst', 'researcher'] },
+  'GET /api/exports/audit': { rule: ['admin'] },
+  'GET /api/exports/audit.csv': { rule: ['admin'] },
+  'GET /api/exports/:id': { rule: ['admin', 'analyst', 'researcher'] },
+  'GET /api/exports/:id/risk': { rule: ['admin'] },
+  'POST /api/exports/:id/decision': { rule: ['admin'] },
+  // The file: only its requester (a researcher or analyst); the approving admin does not download it.
+  'GET /api/exports/:id/file': { rule: ['analyst', 'researcher'] },
 };
 
 export { ALL_CASE_READERS, CASE_WRITERS };
