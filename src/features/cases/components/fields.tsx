@@ -33,7 +33,7 @@ const describedBy = (id: string, hint: unknown, warning: unknown, error: unknown
   [error ? `${id}-error` : hint ? `${id}-hint` : null, warning && !error ? `${id}-warn` : null].filter(Boolean).join(' ') || undefined;
 
 /** A number with its unit; empty is null. Keeps the typed text so "36." can become "36.5". */
-export function NumberField<T extends FieldValues>({ control, name, label, unit, hint, warning, step = 'any', className, placeholder }: Common<T> & { unit?: string; step?: string; placeholder?: string }) {
+export function NumberField<T extends FieldValues>({ control, name, label, unit, hint, warning, step = 'any', className, placeholder, optional = false }: Common<T> & { unit?: string; step?: string; placeholder?: string; optional?: boolean }) {
   const id = useId();
   const { field, fieldState } = useController({ control, name });
   const [text, setText] = useState(field.value == null ? '' : String(field.value));
@@ -57,7 +57,7 @@ export function NumberField<T extends FieldValues>({ control, name, label, unit,
           const t = e.target.value;
           setText(t);
           const trimmed = t.trim().replace(',', '.');
-          const v = trimmed === '' ? null : Number(trimmed);
+          const v = trimmed === '' ? (optional ? undefined : null) : Number(trimmed);
           // Not-a-number is passed on as NaN so the schema names the problem ("enter a number").
           last.current = v;
           field.onChange(v);
@@ -67,7 +67,7 @@ export function NumberField<T extends FieldValues>({ control, name, label, unit,
   );
 }
 
-export function TextField<T extends FieldValues>({ control, name, label, hint, warning, className, type = 'text', maxLength, multiline, autoComplete = 'off' }: Common<T> & { type?: string; maxLength?: number; multiline?: boolean; autoComplete?: string }) {
+export function TextField<T extends FieldValues>({ control, name, label, hint, warning, className, type = 'text', maxLength, multiline, autoComplete = 'off', optional = false }: Common<T> & { type?: string; maxLength?: number; multiline?: boolean; autoComplete?: string; optional?: boolean }) {
   const id = useId();
   const { field, fieldState } = useController({ control, name });
   const error = fieldState.error?.message;
@@ -75,7 +75,7 @@ export function TextField<T extends FieldValues>({ control, name, label, hint, w
     id, ref: field.ref, name: field.name, value: (field.value as string | null | undefined) ?? '', maxLength, autoComplete,
     className: `${inputClass} ${error ? 'border-danger' : ''}`, 'aria-invalid': error ? true : undefined, 'aria-describedby': describedBy(id, hint, warning, error),
     onBlur: field.onBlur,
-    onChange: (e: { target: { value: string } }) => field.onChange(e.target.value === '' ? null : e.target.value),
+    onChange: (e: { target: { value: string } }) => field.onChange(e.target.value === '' ? (optional ? undefined : null) : e.target.value),
   };
   return (
     <Frame id={id} label={label} hint={hint} warning={warning} error={error} className={className}>
@@ -84,12 +84,12 @@ export function TextField<T extends FieldValues>({ control, name, label, hint, w
   );
 }
 
-export function DateField<T extends FieldValues>(p: Common<T>) {
+export function DateField<T extends FieldValues>(p: Common<T> & { optional?: boolean }) {
   return <TextField {...p} type="date" />;
 }
 
 /** A code list as a select; empty is null. */
-export function SelectField<T extends FieldValues>({ control, name, label, hint, warning, className, options, labels, empty = 'Not recorded', unit, onValue }: Common<T> & { options: readonly string[]; labels?: Readonly<Record<string, string>>; empty?: string; unit?: string; onValue?: (v: string | null) => void }) {
+export function SelectField<T extends FieldValues>({ control, name, label, hint, warning, className, options, labels, empty = 'Not recorded', unit, onValue, optional = false }: Common<T> & { options: readonly string[]; labels?: Readonly<Record<string, string>>; empty?: string; unit?: string; onValue?: (v: string | null) => void; optional?: boolean }) {
   const id = useId();
   const { field, fieldState } = useController({ control, name });
   const error = fieldState.error?.message;
@@ -99,7 +99,7 @@ export function SelectField<T extends FieldValues>({ control, name, label, hint,
         id={id} ref={field.ref} name={field.name} value={(field.value as string | null) ?? ''}
         className={`${inputClass} ${error ? 'border-danger' : ''}`} aria-invalid={error ? true : undefined} aria-describedby={describedBy(id, hint, warning, error)}
         onBlur={field.onBlur}
-        onChange={(e) => { const v = e.target.value === '' ? null : e.target.value; field.onChange(v); onValue?.(v); }}
+        onChange={(e) => { const v = e.target.value === '' ? (optional ? undefined : null) : e.target.value; field.onChange(v); onValue?.(v ?? null); }}
       >
         <option value="">{empty}</option>
         {options.map((o) => <option key={o} value={o}>{labels?.[o] ?? o}</option>)}
@@ -190,5 +190,20 @@ export function CheckListField<T extends FieldValues>({ control, name, label, hi
       {hint && !error && <p className="text-xs text-muted">{hint}</p>}
       {error && <p id={`${id}-error`} className="text-xs text-danger" role="alert">{error}</p>}
     </fieldset>
+  );
+}
+
+/** A plain checkbox for a required yes/no inside an observation (unticked = no). */
+export function CheckboxField<T extends FieldValues>({ control, name, label, className }: Common<T>) {
+  const { field, fieldState } = useController({ control, name });
+  const error = fieldState.error?.message;
+  return (
+    <div className={`flex min-w-0 flex-col justify-end gap-1 ${className ?? ''}`}>
+      <label className="flex items-center gap-2 text-sm">
+        <input type="checkbox" ref={field.ref} checked={field.value === true} onBlur={field.onBlur} onChange={(e) => field.onChange(e.target.checked)} />
+        {label}
+      </label>
+      {error && <p className="text-xs text-danger" role="alert">{error}</p>}
+    </div>
   );
 }
