@@ -4,7 +4,16 @@ import { usersRouter } from './users/users.router.js';
 import { sitesRouter } from './sites/sites.router.js';
 import { mailRouter } from './mail/mail.router.js';
 import { jobsRouter } from './jobs/jobs.router.js';
+import { casesRouter } from './cases/cases.router.js';
+import { therapyRouter } from './therapy/therapy.router.js';
+import { caseOutcomesRouter, outcomesRouter } from './outcomes/outcomes.router.js';
+import { worklistRouter } from './worklist/worklist.router.js';
+import { dictionaryRouter } from './dictionary/dictionary.router.js';
 import { exportsRouter } from './exports/exports.router.js';
+import { analysisRouter } from './analysis/analysis.router.js';
+import { cohortsRouter } from './cohorts/cohorts.router.js';
 
 /** Every API area mounted behind the session (health is mounted before it, in app.ts). */
-export const areas: { prefix: string; router: Router }[] = [authRouter, usersRouter, sitesRouter, mailRouter, jobsRouter, exportsRouter];
+export const areas: { prefix: string; router: Router }[] = [authRouter, usersRouter, sitesRouter, mailRouter, jobsRouter,
+  casesRouter, therapyRouter, caseOutcomesRouter, outcomesRouter, worklistRouter, dictionaryRouter, exportsRouter,
+  analysisRouter, cohortsRouter];

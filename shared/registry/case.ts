@@ -136,6 +136,9 @@ export function caseContradictions(c: Partial<CaseFields>): Contradiction[] {
   const stay = c.surgeryDate && c.dischargeDate && c.dischargeDate >= c.surgeryDate ? daysFrom(c.surgeryDate, c.dischargeDate) : null;
   if (stay != null && c.icuDays != null && c.icuDays > stay + 1) out.push({ path: 'icuDays', message: `ICU days (${c.icuDays}) exceed the post-operative stay (${stay} days); check both` });
   if (c.followUpCompletedOn && c.surgeryDate && c.followUpCompletedOn < c.surgeryDate) out.push({ path: 'followUpCompletedOn', message: 'the follow-up date is before the surgery date; check both dates' });
+  else if (c.followUpCompletedOn && c.surgeryDate && c.died30d !== true && daysFrom(c.surgeryDate, c.followUpCompletedOn) < 30) {
+    out.push({ path: 'followUpCompletedOn', message: 'the 30-day follow-up can be completed from post-operative day 30 on (or once the patient has died); check the date' });
+  }
   return out;
 }
 

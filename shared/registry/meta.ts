@@ -47,7 +47,7 @@ export function fieldMeta(schema: z.ZodType): FieldMeta | undefined {
   for (let i = 0; s && i < 8; i++) {
     const m = s.meta() as unknown as FieldMeta | undefined;
     if (m?.label) return m;
-    const def = (s as unknown as { def: { innerType?: z.ZodType; in?: z.ZodType } }).def;
+    const def: { innerType?: z.ZodType; in?: z.ZodType } = (s as unknown as { def: { innerType?: z.ZodType; in?: z.ZodType } }).def;
     s = def.innerType ?? def.in;
   }
   return undefined;

@@ -1,0 +1,97 @@
+/**
+ * GET /api/cases: one SQL query with server-side filters, sort and page, scoped to the user's
+ * sites. Without filters and above 10,000 rows, the total is the planner's estimate (exact
+ * counts of a million rows are slow and the table footer only needs the order of magnitude).
+ */
+import type { DataSource } from 'typeorm';
+import type { SessionUser } from '../../shared/auth/user.js';
+import { parseSort } from '../../shared/api/pagination.js';
+import { caseListIsFiltered, type CaseListItem, type CaseListPage, type CaseListQuery } from '../../shared/registry/list.js';
+import { ANY_PPC_COMPONENTS } from '../../shared/registry/derived.js';
+import { caseSiteScope } from '../http/scope.js';
+
+export const ESTIMATE_ABOVE = 10_000;
+
+const SORT_SQL: Record<string, string> = {
+  registryNumber: 'c.registry_number',
+  surgeryDate: 'c.surgery_date',
+  status: 'c.status',
+  ariscatPoints: 'c.ariscat_points',
+  procedureCategory: 'c.procedure_category',
+  age: 'c.age',
+  updatedAt: 'c.updated_at',
+  siteCode: 's.code',
+};
+
+function whereClause(q: CaseListQuery, user: SessionUser): { sql: string; params: unknown[] } {
+  const params: unknown[] = [];
+  const p = (v: unknown) => {
+    params.push(v);
+    return `$${params.length}`;
+  };
+  const w: string[] = [];
+  const scope = caseSiteScope(user);
+  if (scope) w.push(`c.site_id = ANY(${p(scope)}::uuid[])`);
+  if (q.siteId) w.push(`c.site_id = ANY(${p(q.siteId)}::uuid[])`);
+  if (q.surgeryFrom) w.push(`c.surgery_date >= ${p(q.surgeryFrom)}`);
+  if (q.surgeryTo) w.push(`c.surgery_date <= ${p(q.surgeryTo)}`);
+  if (q.status) w.push(`c.status = ANY(${p(q.status)}::text[])`);
+  if (q.procedureCategory) w.push(`c.procedure_category = ANY(${p(q.procedureCategory)}::text[])`);
+  if (q.riskClass) {
+    const classes = q.riskClass.filter((r) => r !== 'unscored');
+    const parts = [];
+    if (classes.length) parts.push(`c.ariscat_class = ANY(${p(classes)}::text[])`);
+    if (q.riskClass.includes('unscored')) parts.push('c.ariscat_class IS NULL');
+    w.push(`(${parts.join(' OR ')})`);
+  }
+  if (q.outcome) {
+    const ev = (cond: string) => `EXISTS (SELECT 1 FROM outcome_events o WHERE o.case_id = c.id AND o.removed_at IS NULL AND ${cond})`;
+    if (q.outcome === 'any-ppc') w.push(ev(`o.type = ANY(${p([...ANY_PPC_COMPONENTS])}::text[])`));
+    else if (q.outcome === 'no-ppc') w.push(`NOT ${ev(`o.type = ANY(${p([...ANY_PPC_COMPONENTS])}::text[])`)}`);
+    else if (q.outcome === 'pneumonia-nhsn') w.push(ev(`o.type = 'respiratory-infection' AND o.pneumonia_nhsn_met`));
+    else w.push(ev(`o.type = ${p(q.outcome)}`));
+  }
+  if (q.q) w.push(`c.registry_number LIKE ${p(`${q.q.toUpperCase().replace(/[%_\\]/g, '')}%`)}`);
+  return { sql: w.length ? `WHERE ${w.join(' AND ')}` : '', params };
+}
+
+async function plannerEstimate(ds: DataSource, where: { sql: string; params: unknown[] }): Promise<number> {
+  const [row] = await ds.query(`EXPLAIN (FORMAT JSON) SELECT 1 FROM surgical_cases c ${where.sql}`, where.params);
+  const plan = (row['QUERY PLAN'] as { Plan: { 'Plan Rows': number } }[])[0].Plan;
+  return Math.round(plan['Plan Rows']);
+}
+
+export async function listCases(ds: DataSource, q: CaseListQuery, user: SessionUser): Promise<CaseListPage> {
+  const where = whereClause(q, user);
+  const sort = parseSort(q.sort) ?? { field: 'surgeryDate', direction: 'DESC' as const };
+  const order = `${SORT_SQL[sort.field] ?? 'c.surgery_date'} ${sort.direction} NULLS LAST, c.id ${sort.direction}`;
+  const n = where.params.length;
+  const rows = await ds.query(
+    `SELECT c.id, c.registry_number, c.site_id, s.code AS site_code, u.code AS unit_code, c.status, c.surgery_date::text AS surgery_date,
+            c.procedure_category, c.age, c.ariscat_points, c.ariscat_class, c.version, c.updated_at,
+            ARRAY(SELECT DISTINCT o.type FROM outcome_events o WHERE o.case_id = c.id AND o.removed_at IS NULL ORDER BY o.type) AS event_types
+       FROM surgical_cases c JOIN sites s ON s.id = c.site_id LEFT JOIN units u ON u.id = c.unit_id
+       ${where.sql} ORDER BY ${order} LIMIT $${n + 1} OFFSET $${n + 2}`,
+    [...where.params, q.pageSize, (q.page - 1) * q.pageSize],
+  );
+  const ids = rows.map((r: { id: string }) => r.id);
+  const completeRows: { case_id: string; complete: boolean }[] = ids.length ? await ds.query(`SELECT case_id, complete FROM case_completeness WHERE case_id = ANY($1::uuid[])`, [ids]) : [];
+  const complete = new Map(completeRows.map((r) => [r.case_id, r.complete]));
+  const items: CaseListItem[] = rows.map((r: Record<string, any>) => ({
+    id: r.id, registryNumber: r.registry_number, siteId: r.site_id, siteCode: r.site_code, unitCode: r.unit_code, status: r.status, surgeryDate: r.surgery_date,
+    procedureCategory: r.procedure_category, age: r.age, ariscatPoints: r.ariscat_points, ariscatClass: r.ariscat_class,
+    anyPpc: (r.event_types as string[]).some((t) => (ANY_PPC_COMPONENTS as readonly string[]).includes(t)), eventTypes: r.event_types,
+    complete: complete.get(r.id) ?? false, version: r.version, updatedAt: new Date(r.updated_at).toISOString(),
+  }));
+  let total: number;
+  let totalIsEstimate = false;
+  const estimate = caseListIsFiltered(q) ? null : await plannerEstimate(ds, where);
+  if (estimate !== null && estimate > ESTIMATE_ABOVE) {
+    total = estimate;
+    totalIsEstimate = true;
+  } else {
+    const [{ n: count }] = await ds.query(`SELECT count(*)::int AS n FROM surgical_cases c ${where.sql}`, where.params);
+    total = count;
+  }
+  return { items, total, totalIsEstimate, page: q.page, pageSize: q.pageSize };
+}
