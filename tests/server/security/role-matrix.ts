@@ -55,6 +55,18 @@ export const MATRIX: Record<string, MatrixRow> = {
   'POST /api/exports/:id/decision': { rule: ['admin'] },
   // The file: only its requester (a researcher or analyst); the approving admin does not download it.
   'GET /api/exports/:id/file': { rule: ['analyst', 'researcher'] },
+  // Cohorts and comparisons (DESIGN.md: every role; researchers get aggregates only, suppressed).
+  'GET /api/analysis/rates': { rule: ['admin', 'abstractor', 'analyst', 'committee', 'chair', 'researcher'] },
+  'GET /api/analysis/cohort': { rule: ['admin', 'abstractor', 'analyst', 'committee', 'chair', 'researcher'] },
+  'GET /api/analysis/compare': { rule: ['admin', 'abstractor', 'analyst', 'committee', 'chair', 'researcher'] },
+  'GET /api/analysis/series': { rule: ['admin', 'abstractor', 'analyst', 'committee', 'chair', 'researcher'] },
+  'GET /api/analysis/funnel': { rule: ['admin', 'abstractor', 'analyst', 'committee', 'chair', 'researcher'] },
+  'GET /api/analysis/export/:view': { rule: ['admin', 'abstractor', 'analyst', 'committee', 'chair', 'researcher'] },
+  'GET /api/cohorts': { rule: ['admin', 'abstractor', 'analyst', 'committee', 'chair', 'researcher'] },
+  'POST /api/cohorts': { rule: ['admin', 'abstractor', 'analyst', 'committee', 'chair', 'researcher'] },
+  'GET /api/cohorts/:id': { rule: ['admin', 'abstractor', 'analyst', 'committee', 'chair', 'researcher'] },
+  'PATCH /api/cohorts/:id': { rule: ['admin', 'abstractor', 'analyst', 'committee', 'chair', 'researcher'] },
+  'DELETE /api/cohorts/:id': { rule: ['admin', 'abstractor', 'analyst', 'committee', 'chair', 'researcher'] },
 };
 
 export { ALL_CASE_READERS, CASE_WRITERS };
