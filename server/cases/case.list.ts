@@ -64,7 +64,10 @@ async function plannerEstimate(ds: DataSource, where: { sql: string; params: unk
 export async function listCases(ds: DataSource, q: CaseListQuery, user: SessionUser): Promise<CaseListPage> {
   const where = whereClause(q, user);
   const sort = parseSort(q.sort) ?? { field: 'surgeryDate', direction: 'DESC' as const };
-  const order = `${SORT_SQL[sort.field] ?? 'c.surgery_date'} ${sort.direction} NULLS LAST, c.id ${sort.direction}`;
+  // Nullable columns sort their blanks last; NOT NULL ones name no NULLS clause, so that
+  // ORDER BY matches the (surgery_date DESC, id DESC) indexes exactly.
+  const nullable = ['ariscatPoints', 'procedureCategory', 'age'].includes(sort.field);
+  const order = `${SORT_SQL[sort.field] ?? 'c.surgery_date'} ${sort.direction}${nullable ? ' NULLS LAST' : ''}, c.id ${sort.direction}`;
   const n = where.params.length;
   const rows = await ds.query(
     `SELECT c.id, c.registry_number, c.site_id, s.code AS site_code, u.code AS unit_code, c.status, c.surgery_date::text AS surgery_date,

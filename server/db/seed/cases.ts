@@ -96,7 +96,7 @@ const daysInMonth = (month: string) => new Date(Date.UTC(Number(month.slice(0, 4
 // --- Case mix --------------------------------------------------------------------------------
 
 /** Cases per month at a site of size 1.0 (≈ 10,000 over 60 months for the four sites). */
-const MONTHLY_AT_SIZE_1 = 72;
+const MONTHLY_AT_SIZE_1 = 75;
 
 const MIX_GENERAL: Record<ProcedureCategory, number> = {
   'upper-gastrointestinal': 6, 'hepatobiliary-pancreatic': 6, colorectal: 13, 'abdominal-wall-hernia': 9, thoracic: 6, cardiac: 5, vascular: 6,
