@@ -12,8 +12,11 @@ import { dictionaryRouter } from './dictionary/dictionary.router.js';
 import { exportsRouter } from './exports/exports.router.js';
 import { analysisRouter } from './analysis/analysis.router.js';
 import { cohortsRouter } from './cohorts/cohorts.router.js';
+import { measuresRouter } from './measures/measures.router.js';
+import { committeeRouter } from './committee/committee.router.js';
+import { reviewsRouter } from './reviews/reviews.router.js';
 
 /** Every API area mounted behind the session (health is mounted before it, in app.ts). */
 export const areas: { prefix: string; router: Router }[] = [authRouter, usersRouter, sitesRouter, mailRouter, jobsRouter,
   casesRouter, therapyRouter, caseOutcomesRouter, outcomesRouter, worklistRouter, dictionaryRouter, exportsRouter,
-  analysisRouter, cohortsRouter];
+  analysisRouter, cohortsRouter, measuresRouter, committeeRouter, reviewsRouter];

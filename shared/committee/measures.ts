@@ -1,12 +1,13 @@
 /**
  * The committee's measures catalogue: each measure's definition (numerator, denominator,
  * exclusions, source), the chart it is watched on, and which monthly SQL inputs it reads.
- * The first four keys are the analysis issue's; this module adds the committee's own.
- * Cases that count follow the registry's derived-measure rules (shared/registry/derived.ts):
- * status complete, verified or locked; not marked ineligible; month of the surgery date.
+ * The first four keys, and their words, are the analysis issue's (shared/analysis/measures.ts);
+ * this module adds the committee's own. Cases that count follow the registry's derived-measure
+ * rules (shared/registry/derived.ts): status complete, verified or locked; month of surgery.
  */
 import { z } from 'zod';
-import { ANALYSED_CASE_STATUSES, ANY_PPC_COMPONENTS } from '../registry/derived.js';
+import { ANALYSED_CASE_STATUSES } from '../registry/derived.js';
+import { measureByKey as analysisMeasure, type MeasureKey as AnalysisMeasureKey } from '../analysis/measures.js';
 
 export const MeasureKeySchema = z.enum([
   'any-ppc',
@@ -29,7 +30,7 @@ export type MeasureKind = 'proportion' | 'rate' | 'individuals';
 
 /** The additive monthly inputs the database returns per site and month (server/measures/monthly-sql.ts). */
 export const MONTHLY_INPUTS = [
-  'cases', 'anyPpc', 'atelectasis', 'pneumonia', 'pneumoniaEvents', 'dischargedCases', 'patientDays',
+  'cases', 'anyPpc', 'atelectasis', 'pneumonia', 'pneumoniaDischarged', 'dischargedCases', 'patientDays',
   'followedUp', 'respiratoryReadmissions', 'atRisk', 'earlyTherapy', 'adherenceCases', 'adherenceSum',
 ] as const;
 export type MonthlyInput = (typeof MONTHLY_INPUTS)[number];
@@ -57,38 +58,32 @@ export interface MeasureDefinition {
   caution?: boolean;
 }
 
-const COUNTED = `Cases whose status is ${ANALYSED_CASE_STATUSES.join(', ')} and that are not marked ineligible, by month of surgery.`;
-const EXCLUDED = 'Draft and withdrawn cases; cases marked ineligible (outside the site\'s surveillance population); removed outcome events and therapy episodes.';
+const COUNTED = `Cases whose status is ${ANALYSED_CASE_STATUSES.join(', ')}, by month of surgery.`;
+const EXCLUDED = 'Draft and withdrawn cases; removed outcome events and therapy episodes.';
+
+/** The words of a measure the analysis issue defined, so both pages say the same. */
+function shared(key: AnalysisMeasureKey) {
+  const m = analysisMeasure(key);
+  return { label: m.label, short: m.shortLabel, numerator: m.numerator, denominator: m.denominator, source: m.source };
+}
 
 export const MEASURES: readonly MeasureDefinition[] = [
   {
-    key: 'any-ppc', label: 'Any post-operative pulmonary complication', short: 'Any PPC', kind: 'proportion', unit: '%', better: 'lower',
-    numerator: `Cases with at least one outcome event of: ${ANY_PPC_COMPONENTS.join(', ')} (reintubation and ARDS are reported separately).`,
-    denominator: COUNTED, exclusions: EXCLUDED,
-    source: 'Canet J et al., Anesthesiology 2010;113:1338-50 (ARISCAT composite); Jammer I et al., Eur J Anaesthesiol 2015;32:88-105 (EPCO definitions)',
+    key: 'any-ppc', ...shared('any-ppc'), kind: 'proportion', unit: '%', better: 'lower', exclusions: EXCLUDED,
     inputs: { numerator: 'anyPpc', denominator: 'cases' }, rareEvent: false,
   },
   {
-    key: 'atelectasis', label: 'Atelectasis', short: 'Atelectasis', kind: 'proportion', unit: '%', better: 'lower',
-    numerator: 'Cases with at least one atelectasis event (EPCO definition: opacification with shift toward it and compensatory over-inflation).',
-    denominator: COUNTED, exclusions: EXCLUDED,
-    source: 'Jammer I et al., Eur J Anaesthesiol 2015;32:88-105',
+    key: 'atelectasis', ...shared('atelectasis'), kind: 'proportion', unit: '%', better: 'lower', exclusions: EXCLUDED,
     inputs: { numerator: 'atelectasis', denominator: 'cases' }, rareEvent: true,
   },
   {
-    key: 'pneumonia', label: 'Pneumonia (surveillance definition PNU1)', short: 'Pneumonia', kind: 'proportion', unit: '%', better: 'lower',
-    numerator: 'Cases with at least one respiratory-infection event whose stored CDC/NHSN PNU1 evaluation is met.',
-    denominator: COUNTED, exclusions: EXCLUDED,
-    source: 'CDC NHSN Patient Safety Component Manual 2022, ch. 6 (PNU1)',
+    key: 'pneumonia', ...shared('pneumonia'), kind: 'proportion', unit: '%', better: 'lower', exclusions: EXCLUDED,
     inputs: { numerator: 'pneumonia', denominator: 'cases' }, rareEvent: true,
   },
   {
-    key: 'pneumonia-per-1000-patient-days', label: 'Pneumonia per 1,000 post-operative patient-days', short: 'Pneumonia rate', kind: 'rate', unit: 'per 1,000 patient-days', per: 1000, better: 'lower',
-    numerator: 'PNU1 pneumonia events of discharged cases.',
-    denominator: 'Post-operative patient-days (discharge date minus surgery date) of the same discharged cases.',
+    key: 'pneumonia-per-1000-patient-days', ...shared('pneumonia-per-1000-patient-days'), kind: 'rate', unit: 'per 1,000 patient-days', per: 1000, better: 'lower',
     exclusions: `${EXCLUDED} Cases not yet discharged (their patient-days are not known).`,
-    source: 'CDC NHSN Patient Safety Component Manual 2022, ch. 6 (PNU1); incidence density per 1,000 patient-days (common practice, no source)',
-    inputs: { numerator: 'pneumoniaEvents', denominator: 'patientDays' }, rareEvent: true,
+    inputs: { numerator: 'pneumoniaDischarged', denominator: 'patientDays' }, rareEvent: true,
   },
   {
     key: 'respiratory-readmission-30d', label: '30-day readmission for a respiratory cause', short: 'Respiratory readmission', kind: 'proportion', unit: '%', better: 'lower',

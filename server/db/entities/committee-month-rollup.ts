@@ -13,7 +13,7 @@ export class CommitteeMonthRollup {
   @Column({ type: 'integer', name: 'any_ppc' }) anyPpc: number;
   @Column({ type: 'integer' }) atelectasis: number;
   @Column({ type: 'integer' }) pneumonia: number;
-  @Column({ type: 'integer', name: 'pneumonia_events' }) pneumoniaEvents: number;
+  @Column({ type: 'integer', name: 'pneumonia_discharged' }) pneumoniaDischarged: number;
   @Column({ type: 'integer', name: 'discharged_cases' }) dischargedCases: number;
   @Column({ type: 'integer', name: 'patient_days' }) patientDays: number;
   @Column({ type: 'integer', name: 'followed_up' }) followedUp: number;

@@ -67,6 +67,31 @@ export const MATRIX: Record<string, MatrixRow> = {
   'GET /api/cohorts/:id': { rule: ['admin', 'abstractor', 'analyst', 'committee', 'chair', 'researcher'] },
   'PATCH /api/cohorts/:id': { rule: ['admin', 'abstractor', 'analyst', 'committee', 'chair', 'researcher'] },
   'DELETE /api/cohorts/:id': { rule: ['admin', 'abstractor', 'analyst', 'committee', 'chair', 'researcher'] },
+  // Committee review (DESIGN.md: network aggregates with site names for analysts and the committee;
+  // month close, publish and sign-off for the chair only, admins always; members record reviews; measures' settings admin).
+  'GET /api/measures': { rule: ['admin', 'analyst', 'committee', 'chair'] },
+  'GET /api/measures/:key': { rule: ['admin', 'analyst', 'committee', 'chair'] },
+  'PATCH /api/measures/:key': { rule: ['admin'] },
+  'GET /api/measures/:key/chart': { rule: ['admin', 'analyst', 'committee', 'chair'] },
+  'GET /api/measures/:key/g-chart': { rule: ['admin', 'analyst', 'committee', 'chair'] },
+  'GET /api/committee/annotations': { rule: ['admin', 'analyst', 'committee', 'chair'] },
+  'POST /api/committee/annotations': { rule: ['admin', 'analyst', 'committee', 'chair'] },
+  'DELETE /api/committee/annotations/:id': { rule: ['admin', 'analyst', 'committee', 'chair'] },
+  'GET /api/committee/months': { rule: ['admin', 'analyst', 'committee', 'chair'] },
+  'GET /api/committee/months/:month': { rule: ['admin', 'analyst', 'committee', 'chair'] },
+  'POST /api/committee/months/:month/close': { rule: ['chair'] },
+  'POST /api/committee/months/:month/reopen': { rule: ['chair'] },
+  'POST /api/committee/months/:month/publish': { rule: ['chair'] },
+  'GET /api/committee/months/:month/packet': { rule: ['admin', 'analyst', 'committee', 'chair'] },
+  'GET /api/committee/months/:month/packet/file': { rule: ['admin', 'analyst', 'committee', 'chair'] },
+  'GET /api/reviews': { rule: ['admin', 'analyst', 'committee', 'chair'] },
+  'GET /api/reviews/actions': { rule: ['admin', 'analyst', 'committee', 'chair'] },
+  'PATCH /api/reviews/actions/:id': { rule: ['admin', 'analyst', 'committee', 'chair'] },
+  'GET /api/reviews/members': { rule: ['admin', 'committee', 'chair'] },
+  'GET /api/reviews/:month': { rule: ['admin', 'analyst', 'committee', 'chair'] },
+  'PUT /api/reviews/:month/findings/:key': { rule: ['admin', 'committee', 'chair'] },
+  'POST /api/reviews/:month/actions': { rule: ['admin', 'committee', 'chair'] },
+  'POST /api/reviews/:month/sign-off': { rule: ['chair'] },
 };
 
 export { ALL_CASE_READERS, CASE_WRITERS };
