@@ -4,6 +4,7 @@ import { usersRouter } from './users/users.router.js';
 import { sitesRouter } from './sites/sites.router.js';
 import { mailRouter } from './mail/mail.router.js';
 import { jobsRouter } from './jobs/jobs.router.js';
+import { importsRouter } from './imports/imports.router.js';
 import { casesRouter } from './cases/cases.router.js';
 import { therapyRouter } from './therapy/therapy.router.js';
 import { caseOutcomesRouter, outcomesRouter } from './outcomes/outcomes.router.js';
@@ -17,6 +18,6 @@ import { committeeRouter } from './committee/committee.router.js';
 import { reviewsRouter } from './reviews/reviews.router.js';
 
 /** Every API area mounted behind the session (health is mounted before it, in app.ts). */
-export const areas: { prefix: string; router: Router }[] = [authRouter, usersRouter, sitesRouter, mailRouter, jobsRouter,
+export const areas: { prefix: string; router: Router }[] = [authRouter, usersRouter, sitesRouter, mailRouter, jobsRouter, importsRouter,
   casesRouter, therapyRouter, caseOutcomesRouter, outcomesRouter, worklistRouter, dictionaryRouter, exportsRouter,
   analysisRouter, cohortsRouter, measuresRouter, committeeRouter, reviewsRouter];

@@ -73,7 +73,8 @@ export function cellKindOf(schema: AnySchema): CellKind {
   return { type: 'text', maxLength: max };
 }
 
-function describeCell(cell: CellKind, unit?: string): string {
+/** What a cell of this kind should hold, in words (template notes and problem hints). */
+export function describeCell(cell: CellKind, unit?: string): string {
   switch (cell.type) {
     case 'boolean': return 'yes or no';
     case 'date': return 'date as YYYY-MM-DD (or an Excel date)';
