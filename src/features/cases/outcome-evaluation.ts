@@ -90,3 +90,21 @@ export function evaluateEvent(type: PpcEventType | null | undefined, observation
   }
   return { views, invalid };
 }
+
+/** The definition results the server stored with an event, in the same view shape. */
+export function storedViews(type: PpcEventType, evaluations: readonly { definition: string; name: string; version: string; source: string; met: boolean; result: unknown; error: string | null }[]): DefinitionView[] {
+  return evaluations.map((e) => {
+    const id = e.definition as DefinitionView['id'];
+    const base = { id, name: e.name, version: e.version, source: e.source, met: e.error ? null : e.met, error: e.error, criteria: [] as CriterionResult[], summary: e.met ? 'Met' : 'Not met' };
+    if (e.error || !e.result) return base;
+    const r = e.result as Record<string, unknown>;
+    if (id === 'nhsn-pnu1') return { ...base, criteria: (r.criteria as CriterionResult[]) ?? [], summary: e.met ? `Met; date of event ${String(r.dateOfEvent)}` : 'Not met' };
+    if (id === 'epco') {
+      const comp = ((r.components as { component: string; label: string; met: boolean; criteria: CriterionResult[]; onsetPostoperativeDay: number | null }[]) ?? []).find((c) => c.component === type);
+      return comp ? { ...base, name: `${e.name}: ${comp.label}`, met: comp.met, criteria: comp.criteria, summary: comp.met ? `Met from post-operative day ${comp.onsetPostoperativeDay}` : 'Not met' } : base;
+    }
+    const days = (r.days as { postoperativeDay: number; criteriaMet: number; criteria: CriterionResult[] }[]) ?? [];
+    const best = days.reduce<(typeof days)[number] | null>((b, d) => (!b || d.criteriaMet > b.criteriaMet ? d : b), null);
+    return { ...base, criteria: best?.criteria ?? [], summary: e.met ? `Met on post-operative day ${String(r.firstPostoperativeDayMet)}` : `Not met: at most ${String(r.maxCriteriaMet)} of the 4 needed criteria on one day` };
+  });
+}
