@@ -56,7 +56,7 @@ function toView(r: Record<string, any>, user: SessionUser): ExportRequestView {
     colsBy: r.cols_by,
     format: r.format,
     level: r.level,
-    dua: r.dua_reference ? { reference: r.dua_reference, expiresOn: String(r.dua_expires_on).slice(0, 10) } : null,
+    dua: r.dua_reference ? { reference: r.dua_reference, expiresOn: r.dua_expires_text } : null,
     siteNamesRequested: r.site_names_requested,
     status: r.status,
     decidedBy: r.decider_name ?? null,
@@ -75,7 +75,7 @@ function toView(r: Record<string, any>, user: SessionUser): ExportRequestView {
   };
 }
 
-const SELECT = `SELECT r.*, u.display_name AS requester_name, u.email AS requester_email, d.display_name AS decider_name,
+const SELECT = `SELECT r.*, to_char(r.dua_expires_on, 'YYYY-MM-DD') AS dua_expires_text, u.display_name AS requester_name, u.email AS requester_email, d.display_name AS decider_name,
     j.progress AS job_progress, j.error AS job_error
   FROM export_requests r JOIN users u ON u.id = r.requester_id LEFT JOIN users d ON d.id = r.decided_by LEFT JOIN jobs j ON j.id = r.job_id`;
 
@@ -181,7 +181,7 @@ export async function decide(c: RequestContext, user: SessionUser, id: string, d
     await c.mailer.send({ to: requester.email, subject: 'Alveolog: your research export request was declined', text: `Your export request of ${new Date(row.created_at).toISOString().slice(0, 10)} was declined.\n\nReason: ${d.reason}\n\nSee your requests: ${c.appUrl}/research/exports\n` });
     return getRequest(c.ds, user, id);
   }
-  assertDuaCurrent(row.dua_reference ? { reference: row.dua_reference, expiresOn: String(row.dua_expires_on).slice(0, 10) } : null, row.level, c.config, 'decision');
+  assertDuaCurrent(row.dua_reference ? { reference: row.dua_reference, expiresOn: row.dua_expires_text } : null, row.level, c.config, 'decision');
   const risk = await riskReport(c.readDs, row);
   const below = risk.applies && risk.asRequested.records > 0 && risk.asRequested.k < K_THRESHOLD;
   if (below && d.riskAction === 'none' && !d.acceptRisk) {

@@ -79,10 +79,10 @@ export interface GenerateOptions { maxRowsPerSheet?: number }
 export async function generateExport(context: AppContext, requestId: string, tools: JobTools, opts: GenerateOptions = {}): Promise<Record<string, unknown>> {
   const { ds, config } = context;
   const readDs = context.readDs;
-  const [row] = await ds.query(`SELECT r.*, d.display_name AS approver FROM export_requests r LEFT JOIN users d ON d.id = r.decided_by WHERE r.id = $1`, [requestId]);
+  const [row] = await ds.query(`SELECT r.*, to_char(r.dua_expires_on, 'YYYY-MM-DD') AS dua_expires_text, d.display_name AS approver FROM export_requests r LEFT JOIN users d ON d.id = r.decided_by WHERE r.id = $1`, [requestId]);
   if (!row) throw new Error('the export request no longer exists');
   if (!['approved', 'failed', 'generating'].includes(row.status)) throw new Error(`the export request is ${row.status}, not approved`);
-  const dua = row.dua_reference ? { reference: row.dua_reference as string, expiresOn: String(row.dua_expires_on).slice(0, 10) } : null;
+  const dua = row.dua_reference ? { reference: row.dua_reference as string, expiresOn: row.dua_expires_text as string } : null;
   // No limited data set after its agreement expires, even if approved before.
   if (row.level === 'limited' && (!dua || dua.expiresOn < todayIn(config.NETWORK_TIME_ZONE))) {
     await ds.query(`UPDATE export_requests SET status = 'failed' WHERE id = $1`, [requestId]);

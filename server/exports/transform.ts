@@ -26,7 +26,7 @@ export function rowTransformer(variables: readonly ExportVariable[], t: Transfor
     const s = v.source;
     if (s.kind === 'derived') {
       switch (s.rule) {
-        case 'site': return (x) => (x == null ? null : t.siteLabel.get(String(x)) ?? null);
+        case 'site': return (x) => { const l = x == null ? undefined : t.siteLabel.get(String(x)); return l === undefined ? null : neutraliseFormula(l); };
         case 'unit': return (x) => (x == null ? null : t.unitCode.get(String(x)) ?? null);
         case 'surgeryPeriod': return (x) => (x == null ? null : surgeryPeriod(`${x}-01`, t.coarsen ? 'deidentified' : t.level));
         // Coarsened: the age leaves as a 20-year band, never in years.

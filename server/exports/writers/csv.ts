@@ -5,6 +5,7 @@
 import { createWriteStream } from 'node:fs';
 import { PassThrough } from 'node:stream';
 import archiver from 'archiver';
+import { neutraliseFormula } from '../../../shared/exports/deid.js';
 import type { Cell } from '../transform.js';
 import type { FileParts, RowSink } from './types.js';
 
@@ -13,7 +14,8 @@ export function csvField(v: Cell | undefined): string {
   if (v === null || v === undefined) return '';
   if (typeof v === 'number') return Number.isFinite(v) ? String(v) : '';
   if (typeof v === 'boolean') return v ? 'true' : 'false';
-  return /[",\r\n]/.test(v) ? `"${v.replace(/"/g, '""')}"` : v;
+  const text = neutraliseFormula(v); // every text cell, README and dictionary included
+  return /[",\r\n]/.test(text) ? `"${text.replace(/"/g, '""')}"` : text;
 }
 export const csvLine = (cells: readonly (Cell | undefined)[]) => `${cells.map(csvField).join(',')}\r\n`;
 

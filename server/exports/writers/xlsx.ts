@@ -5,8 +5,12 @@
  */
 import ExcelJS from 'exceljs';
 import { XLSX_MAX_ROWS_PER_SHEET } from '../../../shared/exports/schemas.js';
+import { neutraliseFormula } from '../../../shared/exports/deid.js';
 import type { Cell } from '../transform.js';
 import type { FileParts, RowSink } from './types.js';
+
+/** Text cells are neutralised wherever they come from (README values may quote a site name). */
+const safe = (cells: readonly (Cell | undefined)[]) => cells.map((c) => (typeof c === 'string' ? neutraliseFormula(c) : c));
 
 export function openXlsx(path: string, parts: FileParts, opts: { maxRowsPerSheet?: number } = {}): RowSink {
   // The format's limit counts the header row (Excel specifications and limits: 1,048,576 rows).
@@ -14,7 +18,7 @@ export function openXlsx(path: string, parts: FileParts, opts: { maxRowsPerSheet
   const wb = new ExcelJS.stream.xlsx.WorkbookWriter({ filename: path, useStyles: false, useSharedStrings: false });
   wb.creator = 'Alveolog';
   const readme = wb.addWorksheet('README');
-  for (const line of parts.readme) readme.addRow(line).commit();
+  for (const line of parts.readme) readme.addRow(safe(line)).commit();
   readme.commit();
   let sheets = 0;
   let sheet: ExcelJS.Worksheet;
@@ -45,7 +49,7 @@ export function openXlsx(path: string, parts: FileParts, opts: { maxRowsPerSheet
       sheet.commit();
       const dict = wb.addWorksheet('Dictionary');
       dict.addRow([...parts.dictionaryHeader]).commit();
-      for (const r of parts.dictionary) dict.addRow(r).commit();
+      for (const r of parts.dictionary) dict.addRow(safe(r)).commit();
       dict.commit();
       await wb.commit();
       return { sheets };
