@@ -12,6 +12,8 @@ import { neutraliseText } from './cells.js';
 const RED = 'FFF4C7C3';
 const AMBER = 'FFFCE8C8';
 const safe = (v: string | null) => (v === null ? null : neutraliseText(v));
+/** A value that is a plain number is written as a number (so -2 stays -2); other text is neutralised. */
+const cellValue = (v: string | null) => (v === null ? null : /^-?\d+(\.\d+)?$/.test(v) ? Number(v) : neutraliseText(v));
 
 export async function problemsWorkbook(fileName: string, sheets: readonly SheetInfo[], problems: readonly Problem[], total: number): Promise<Buffer> {
   const wb = new ExcelJS.Workbook();
@@ -24,7 +26,7 @@ export async function problemsWorkbook(fileName: string, sheets: readonly SheetI
   ];
   list.getRow(1).font = { bold: true };
   for (const p of problems) {
-    const row = list.addRow({ sheet: safe(p.sheet), row: p.row, cell: p.cell, column: safe(p.column), value: safe(p.value), message: safe(p.message), hint: safe(p.hint), severity: p.severity });
+    const row = list.addRow({ sheet: safe(p.sheet), row: p.row, cell: p.cell, column: safe(p.column), value: cellValue(p.value), message: safe(p.message), hint: safe(p.hint), severity: p.severity });
     row.getCell('severity').fill = { type: 'pattern', pattern: 'solid', fgColor: { argb: p.severity === 'error' ? RED : AMBER } };
   }
   if (total > problems.length) list.addRow({ message: `…and ${total - problems.length} more problems not listed (the first ${problems.length} are kept). Fix these and run the dry run again.` });
@@ -43,7 +45,7 @@ export async function problemsWorkbook(fileName: string, sheets: readonly SheetI
         const idx = p.column ? s.headers.indexOf(p.column) : -1;
         if (idx < 0) continue;
         const cell = row.getCell(idx + 2);
-        if (p.value !== null) cell.value = neutraliseText(p.value);
+        if (p.value !== null) cell.value = cellValue(p.value);
         cell.fill = { type: 'pattern', pattern: 'solid', fgColor: { argb: p.severity === 'error' ? RED : AMBER } };
         const prev = typeof cell.note === 'string' ? `${cell.note}\n` : '';
         cell.note = `${prev}${p.message} — ${p.hint}`;

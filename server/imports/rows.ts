@@ -8,7 +8,7 @@ import { describeCell, type ImportColumn, type RecordKind, columnOf } from '../.
 import type { Problem } from '../../shared/imports/api.js';
 import { identifierLikeContent } from '../../shared/registry/text.js';
 import { fieldMeta } from '../../shared/registry/meta.js';
-import { columnLetter, neutraliseText, rawText, readCell, type CellOptions } from './cells.js';
+import { columnLetter, rawText, readCell, type CellOptions } from './cells.js';
 
 export interface MappedColumn { index: number; header: string; letter: string; col: ImportColumn }
 
@@ -33,7 +33,8 @@ export function shownValue(c: MappedColumn | undefined, raw: unknown): string | 
   if (t === null || t === '') return null;
   const isFree = c.col.cell.type === 'text' && !c.col.importOnly;
   if (isFree && identifierLikeContent(t)) return '(not shown: it may hold an identifier)';
-  const s = neutraliseText(t.trim());
+  // Shown as read; every download neutralises formula-like text (problems-xlsx.ts).
+  const s = t.trim();
   return s.length > MAX_VALUE ? `${s.slice(0, MAX_VALUE)}…` : s;
 }
 
