@@ -193,9 +193,11 @@ export async function changeStatus(services: Services, id: string, input: Status
       draft: current.status === 'withdrawn' ? `withdrawn_at = NULL, withdrawn_by = NULL, withdrawn_reason = NULL` : `completed_at = NULL`,
       verified: `verified_by = $2, verified_at = now(), editors_since_verification = '{}'`,
       locked: `locked_by = $2, locked_at = now()`,
-      withdrawn: `withdrawn_by = $2, withdrawn_at = now(), withdrawn_reason = $3`,
+      withdrawn: `withdrawn_by = $2, withdrawn_at = now(), withdrawn_reason = $4::text`,
     };
-    await tx.query(`UPDATE surgical_cases SET status = $4, version = version + 1, updated_at = now(), ${sets[input.to]}, updated_by = $2 WHERE id = $1`, [id, uid, input.reason ?? null, input.to]);
+    const params: unknown[] = [id, uid, input.to];
+    if (input.to === 'withdrawn') params.push(input.reason);
+    await tx.query(`UPDATE surgical_cases SET status = $3, version = version + 1, updated_at = now(), ${sets[input.to]}, updated_by = $2 WHERE id = $1`, params);
     await audit(tx, { action: 'status-changed', actorId: uid, actorEmail: actor.user.email, ip: actor.ip, entity: 'case', entityId: id, field: 'status', oldValue: current.status, newValue: input.to, reason: input.reason ?? null });
   });
   return getCaseView(services, id, actor.user);
