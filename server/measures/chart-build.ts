@@ -154,14 +154,24 @@ function buildPhase(m: MeasureDefinition, inputs: PeriodInput[], phaseIndex: num
       explanation: `Too few crossings: the line crosses the median ${run.crossings} times, fewer than the ${run.crossingsLimit} expected at least for ${run.useful} useful points (5th percentile of Binomial(n - 1, 0.5); Anhøj & Olesen, PLoS One 2014). Points cluster on one side: the process has probably shifted.` }, phaseStart, phaseEnd);
   }
   const centre = fmt(m, chart.centre * scale);
+  // Consecutive points beyond the same limit are read as one finding (one line, not one per month).
+  const merged: { rule: string; start: number; end: number }[] = [];
   for (const s of chart.signals) {
+    const last = merged[merged.length - 1];
+    const sameSide = last && chart.points[last.end].value > chart.centre === chart.points[s.start].value > chart.centre;
+    if (s.rule === 'outside-3-sigma' && last?.rule === 'outside-3-sigma' && last.end === s.start - 1 && sameSide) last.end = s.end;
+    else merged.push({ ...s });
+  }
+  for (const s of merged) {
     const a = present[s.start];
     const b = present[s.end];
     let dir: ChartSignal['direction'] = 'none';
     if (s.rule === 'six-trend') dir = values[b]! > values[a]! ? 'rising' : 'falling';
     else if (s.rule !== 'fifteen-within-1-sigma') dir = chart.points[s.start].value > chart.centre ? 'above' : 'below';
     const what: Record<string, string> = {
-      'outside-3-sigma': `${monthLabel(period(a))} (${fmt(m, values[a])}) lies ${dir === 'above' ? 'above the upper' : 'below the lower'} 3-sigma control limit of the ${chartKindLabel(m.kind)} (centre ${centre}).`,
+      'outside-3-sigma': s.start === s.end
+        ? `${monthLabel(period(a))} (${fmt(m, values[a])}) lies ${dir === 'above' ? 'above the upper' : 'below the lower'} 3-sigma control limit of the ${chartKindLabel(m.kind)} (centre ${centre}).`
+        : `${countBetween(a, b)} ${unitWord} in a row (${span(a, b)}) lie ${dir === 'above' ? 'above the upper' : 'below the lower'} 3-sigma control limit of the ${chartKindLabel(m.kind)} (centre ${centre}).`,
       'eight-one-side': `${countBetween(a, b)} ${unitWord} in a row ${dir} the centre line of ${centre} (${span(a, b)}).`,
       'six-trend': `${countBetween(a, b)} ${unitWord} in a row all ${dir} (${span(a, b)}).`,
       'two-of-three-beyond-2-sigma': `Two of three consecutive ${unitWord} lie beyond 2 sigma ${dir} the centre line (${span(a, b)}).`,
