@@ -6,7 +6,7 @@ import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import fs from 'node:fs';
 import { uploadDir } from '../../../server/imports/storage.js';
 import { startTestApp, type TestApp, type Client } from '../helpers.js';
-import { drainJobs, proposedMapping, siteId, upload, uploadAndDryRun, workbook } from './support.js';
+import { freshDataDir, drainJobs, proposedMapping, siteId, upload, uploadAndDryRun, workbook } from './support.js';
 
 let t: TestApp;
 let c: Client;
@@ -15,7 +15,7 @@ const casesBefore = async () => (await t.ds.query(`SELECT count(*)::int AS n FRO
 
 beforeAll(async () => {
   // 0.02 MB = 20,971 bytes; 6 rows at most.
-  t = await startTestApp({ UPLOAD_MAX_MB: '0.02', IMPORT_MAX_ROWS: '6' });
+  t = await startTestApp({ UPLOAD_MAX_MB: '0.02', IMPORT_MAX_ROWS: '6', DATA_DIR: freshDataDir() });
   c = await t.as('abstractor');
   hbr = await siteId(t, 'HBR');
 });

@@ -1,4 +1,7 @@
 /** Helpers for the import tests: build workbooks and CSV files, upload them, run the queued job. */
+import fs from 'node:fs';
+import os from 'node:os';
+import path from 'node:path';
 import ExcelJS from 'exceljs';
 import type { TestApp, Client } from '../helpers.js';
 import { runOne } from '../../../server/jobs/jobs.service.js';
@@ -45,4 +48,9 @@ export async function uploadAndDryRun(t: TestApp, c: Client, file: Buffer, name:
   await drainJobs(t);
   const view = (await c.get(`/api/imports/${up.body.id}`)).body;
   return { up, dr, view };
+}
+
+/** A fresh DATA_DIR per test file, so the upload folder holds only this file's uploads. */
+export function freshDataDir(): string {
+  return fs.mkdtempSync(path.join(os.tmpdir(), 'alveolog-imports-'));
 }

@@ -1,12 +1,12 @@
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import ExcelJS from 'exceljs';
 import { startTestApp, type TestApp } from '../helpers.js';
-import { drainJobs, siteId, upload, uploadAndDryRun } from './support.js';
+import { freshDataDir, drainJobs, siteId, upload, uploadAndDryRun } from './support.js';
 import { IMPORT_COLUMNS, SHEET_NAMES } from '../../../shared/imports/fields.js';
 import { buildDictionary } from '../../../shared/registry/dictionary.js';
 
 let t: TestApp;
-beforeAll(async () => { t = await startTestApp(); });
+beforeAll(async () => { t = await startTestApp({ DATA_DIR: freshDataDir() }); });
 afterAll(async () => { await t.close(); });
 
 async function template(): Promise<Buffer> {
