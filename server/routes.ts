@@ -16,8 +16,9 @@ import { cohortsRouter } from './cohorts/cohorts.router.js';
 import { measuresRouter } from './measures/measures.router.js';
 import { committeeRouter } from './committee/committee.router.js';
 import { reviewsRouter } from './reviews/reviews.router.js';
+import { qualityRouter } from './quality/quality.router.js';
 
 /** Every API area mounted behind the session (health is mounted before it, in app.ts). */
 export const areas: { prefix: string; router: Router }[] = [authRouter, usersRouter, sitesRouter, mailRouter, jobsRouter, importsRouter,
   casesRouter, therapyRouter, caseOutcomesRouter, outcomesRouter, worklistRouter, dictionaryRouter, exportsRouter,
-  analysisRouter, cohortsRouter, measuresRouter, committeeRouter, reviewsRouter];
+  analysisRouter, cohortsRouter, measuresRouter, committeeRouter, reviewsRouter, qualityRouter];

@@ -105,6 +105,22 @@ export const MATRIX: Record<string, MatrixRow> = {
   'PUT /api/reviews/:month/findings/:key': { rule: ['admin', 'committee', 'chair'] },
   'POST /api/reviews/:month/actions': { rule: ['admin', 'committee', 'chair'] },
   'POST /api/reviews/:month/sign-off': { rule: ['chair'] },
+  // Data quality (DESIGN.md: case-level views for those who read cases of their sites; uploads by case writers;
+  // samples and consistency runs by admins and analysts; blind entry and adjudication (a case change) by case writers).
+  'GET /api/quality/completeness': { rule: ALL_CASE_READERS },
+  'GET /api/quality/capture': { rule: ALL_CASE_READERS },
+  'POST /api/quality/capture/theatre-lists': { rule: CASE_WRITERS },
+  'GET /api/quality/reabstraction/abstractors': { rule: ['admin', 'analyst'] },
+  'GET /api/quality/reabstraction/samples': { rule: ['admin', 'abstractor', 'analyst'] },
+  'POST /api/quality/reabstraction/samples': { rule: ['admin', 'analyst'] },
+  'GET /api/quality/reabstraction/samples/:id/blind': { rule: CASE_WRITERS },
+  'POST /api/quality/reabstraction/items/:id': { rule: CASE_WRITERS },
+  'GET /api/quality/reabstraction/samples/:id/report': { rule: ['admin', 'abstractor', 'analyst'] },
+  'GET /api/quality/reabstraction/samples/:id/report.xlsx': { rule: ['admin', 'abstractor', 'analyst'] },
+  'POST /api/quality/reabstraction/items/:id/adjudications': { rule: CASE_WRITERS },
+  'POST /api/quality/checks': { rule: ['admin', 'analyst'] },
+  'GET /api/quality/findings': { rule: ['admin', 'abstractor', 'analyst'] },
+  'POST /api/quality/findings/:id/review': { rule: ['admin', 'abstractor', 'analyst'] },
 };
 
 export { ALL_CASE_READERS, CASE_WRITERS };
