@@ -18,6 +18,7 @@ import { paths } from '../../lib/paths.js';
 import { userHasAccess, useSession } from '../../lib/session.js';
 import { useCase } from './api/get-case.js';
 import { useCaseAudit } from './api/get-case-audit.js';
+import { useSites } from './api/get-sites.js';
 import { useChangeStatus } from './api/write-case.js';
 import { DefinitionsView } from './components/definitions-view.js';
 import { showValue } from './form-model.js';
@@ -50,14 +51,14 @@ function StatusActions({ c }: { c: Case }) {
   const canEdit = userHasAccess(user, ['admin', 'abstractor']);
   return (
     <div className="flex flex-col gap-2">
-      <div className="flex flex-wrap gap-2">
+      <div className="flex flex-wrap items-start gap-2">
         {canEdit && EDITABLE_STATUSES.includes(c.status) && <Link to={paths.cases.edit(c.id)} className="inline-flex items-center rounded bg-accent px-3 py-1.5 text-sm font-semibold text-white hover:bg-accent-strong">Edit case</Link>}
         {canEdit && c.status === 'locked' && <Link to={paths.cases.edit(c.id)} className="inline-flex items-center rounded border border-line bg-panel px-3 py-1.5 text-sm font-semibold hover:border-accent">Amend (with a reason)</Link>}
         {moves.map((t) => {
           const why = disabledWhy(t);
           return (
             <span key={t.label} className="flex flex-col">
-              <Button variant={t.to === 'withdrawn' ? 'danger' : t.to === 'verified' ? 'primary' : 'secondary'} disabled={!!why || change.isPending} aria-describedby={why ? `why-${t.to}` : undefined}
+              <Button className="disabled:opacity-60" variant={t.to === 'withdrawn' ? 'danger' : t.to === 'verified' ? 'primary' : 'secondary'} disabled={!!why || change.isPending} aria-describedby={why ? `why-${t.to}` : undefined}
                 onClick={() => (t.needsReason ? setAsking(t) : go(t))}>{t.label}</Button>
               {why && <span id={`why-${t.to}`} className="mt-0.5 max-w-56 text-xs text-muted">{t.label} is not available: {why}.</span>}
             </span>
@@ -108,7 +109,7 @@ function AuditTrail({ id }: { id: string }) {
       {audit.isPending && <Loading what="the audit trail" />}
       {audit.error && <ErrorState error={audit.error} retry={() => audit.refetch()} />}
       {audit.data && (
-        <div className="overflow-x-auto">
+        <div className="overflow-x-auto" tabIndex={0} role="region" aria-label="Audit trail table (scrolls sideways)">
           <table className="w-full text-left text-sm">
             <caption className="sr-only">Every change to this case: who, when, field, old value, new value</caption>
             <thead className="border-b border-line text-muted"><tr><th scope="col" className="py-1 pr-3">When</th><th scope="col" className="pr-3">Who</th><th scope="col" className="pr-3">What</th><th scope="col" className="pr-3">Field</th><th scope="col" className="pr-3">Old</th><th scope="col" className="pr-3">New</th><th scope="col">Reason</th></tr></thead>
@@ -137,9 +138,12 @@ export function CaseDetailPage() {
   const { id = '' } = useParams();
   const location = useLocation();
   const q = useCase(id);
+  const sites = useSites();
   if (q.isPending) return <div><PageHeader title="Case" /><Loading what="the case" /></div>;
   if (q.error) return <div><PageHeader title="Case" /><ErrorState error={q.error} retry={() => q.refetch()} /></div>;
   const c = q.data;
+  const units = new Map((sites.data?.items ?? []).flatMap((s) => s.units.map((u) => [u.id, `${u.code} — ${u.name}`] as const)));
+  const shown = (k: CaseFieldName) => (k === 'unitId' && c.unitId ? units.get(c.unitId) ?? 'a unit of the site' : display(k, (c as Record<string, unknown>)[k]));
   const bySection = (s: DictionarySection) => CASE_FIELD_NAMES.filter((k) => fieldMeta(CASE_FIELDS[k])?.section === s);
   return (
     <div>
@@ -172,12 +176,12 @@ export function CaseDetailPage() {
                 <Panel key={s} title={DICTIONARY_SECTION_LABELS[s]}>
                   {names.length > 0 && (
                     <dl className="grid gap-x-6 sm:grid-cols-2">
-                      {names.map((k) => <div key={k} className="flex justify-between gap-3 border-b border-line/60 py-1 text-sm"><dt className="text-muted">{fieldMeta(CASE_FIELDS[k])?.label}</dt><dd className="text-right">{display(k, (c as Record<string, unknown>)[k])}</dd></div>)}
+                      {names.map((k) => <div key={k} className="flex justify-between gap-3 border-b border-line/60 py-1 text-sm"><dt className="text-muted">{fieldMeta(CASE_FIELDS[k])?.label}</dt><dd className="text-right">{shown(k)}</dd></div>)}
                     </dl>
                   )}
                   {s === 'therapy' && (
                     c.therapy.length === 0 ? <p className="mt-2 text-sm text-muted">No episodes.</p> : (
-                      <div className="mt-2 overflow-x-auto">
+                      <div className="mt-2 overflow-x-auto" tabIndex={0} role="region" aria-label="Therapy episodes table">
                         <table className="w-full text-left text-sm">
                           <caption className="sr-only">Therapy episodes</caption>
                           <thead className="border-b border-line text-muted"><tr><th scope="col" className="py-1 pr-3">Modality</th><th scope="col" className="pr-3 text-right">Start day</th><th scope="col" className="pr-3 text-right">Sessions</th><th scope="col" className="pr-3 text-right">Adherence</th><th scope="col">Settings and warnings</th></tr></thead>

@@ -26,8 +26,8 @@ const COLUMNS: ColumnDef<CaseListItem>[] = [
   { id: 'procedureCategory', header: 'Procedure', accessorFn: (r) => (r.procedureCategory ? shortCategory(r.procedureCategory) : '—') },
   { id: 'age', header: 'Age (years)', accessorFn: (r) => r.age ?? '—', meta: { numeric: true } },
   {
-    id: 'ariscatPoints', accessorKey: 'ariscatPoints', header: 'ARISCAT', meta: { numeric: true },
-    cell: ({ row }) => (row.original.ariscatPoints == null ? <span className="text-muted">not scored</span> : <span>{row.original.ariscatPoints} pts · {row.original.ariscatClass}</span>),
+    id: 'ariscatPoints', accessorKey: 'ariscatPoints', header: 'ARISCAT points', meta: { numeric: true },
+    cell: ({ row }) => (row.original.ariscatPoints == null ? <span className="text-muted">not scored</span> : <span>{row.original.ariscatPoints} · {row.original.ariscatClass}</span>),
   },
   {
     id: 'outcome', header: 'Outcomes', enableSorting: false,
@@ -181,7 +181,7 @@ export function CaseListPage() {
           {list.error && <div className="p-3"><ErrorState error={list.error} retry={() => list.refetch()} /></div>}
           {data && data.items.length === 0 && <div className="p-3"><EmptyState title="No cases match these filters">Change or clear the filters{canCreate ? ', or enter a new case' : ''}.</EmptyState></div>}
           {data && data.items.length > 0 && (
-            <div className="overflow-x-auto">
+            <div className="overflow-x-auto" tabIndex={0} role="region" aria-label="Cases table (scrolls sideways)">
               <table className="w-full text-left text-sm">
                 <caption className="sr-only">Cases, sorted by {COLUMN_LABEL[field] ?? field} {dir === 'desc' ? 'descending' : 'ascending'}</caption>
                 <thead className="border-b border-line bg-surface text-muted">
@@ -209,7 +209,7 @@ export function CaseListPage() {
                   {table.getRowModel().rows.map((r) => (
                     <tr key={r.id} className="border-b border-line/60 hover:bg-accent-soft/40">
                       {r.getVisibleCells().map((c) => (
-                        <td key={c.id} className={`px-3 py-1.5 ${(c.column.columnDef.meta as { numeric?: boolean } | undefined)?.numeric ? 'text-right tabular' : ''}`}>{flexRender(c.column.columnDef.cell ?? ((x) => String(x.getValue() ?? '')), c.getContext())}</td>
+                        <td key={c.id} className={`px-3 py-1.5 ${c.column.id === 'outcome' || c.column.id === 'procedureCategory' ? '' : 'whitespace-nowrap'} ${(c.column.columnDef.meta as { numeric?: boolean } | undefined)?.numeric ? 'text-right tabular' : ''}`}>{flexRender(c.column.columnDef.cell ?? ((x) => String(x.getValue() ?? '')), c.getContext())}</td>
                       ))}
                     </tr>
                   ))}

@@ -38,7 +38,7 @@ export function DictionaryPage() {
       {d.data && (
         <>
           <p className="mb-2 text-sm text-muted" aria-live="polite">{rows.length} of {d.data.items.length} variables. Free-text fields: {d.data.freeTextReminder}</p>
-          <div className="overflow-x-auto rounded border border-line bg-panel">
+          <div className="overflow-x-auto rounded border border-line bg-panel" tabIndex={0} role="region" aria-label="Dictionary table (scrolls sideways)">
             <table className="w-full text-left text-sm">
               <caption className="sr-only">Registry variables</caption>
               <thead className="border-b border-line bg-surface text-muted">

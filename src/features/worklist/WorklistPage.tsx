@@ -3,11 +3,12 @@
  * follow-up windows about to close or closed without follow-up, and cases waiting for a
  * second person's verification (only those the user may verify).
  */
+import { useState } from 'react';
 import { Link, useSearchParams } from 'react-router-dom';
 import type { Worklist, WorklistItem } from '../../../shared/registry/worklist.js';
 import { CASE_FIELDS, type CaseFieldName } from '../../../shared/registry/case.js';
 import { fieldMeta } from '../../../shared/registry/meta.js';
-import { EmptyState, ErrorState, inputClass, Loading, PageHeader, Panel } from '../../components/ui.js';
+import { Button, EmptyState, ErrorState, inputClass, Loading, PageHeader, Panel } from '../../components/ui.js';
 import { StatusBadge } from '../../components/status-badge.js';
 import { paths } from '../../lib/paths.js';
 import { useSession } from '../../lib/session.js';
@@ -24,27 +25,34 @@ const BUCKETS: { key: BucketKey; title: string; empty: string; detail: (i: Workl
   { key: 'awaitingVerification', title: 'Waiting for verification by you', empty: 'Nothing waits for your verification.', daysLabel: 'Days waiting', detail: () => 'entered or changed by someone else' },
 ];
 
-function Bucket({ title, items, total, empty, detail, daysLabel, id }: { id: string; title: string; items: WorklistItem[]; total: number; empty: string; detail: (i: WorklistItem) => string; daysLabel: string }) {
+const FIRST = 8;
+
+function Bucket({ title, items: all, total, empty, detail, daysLabel, id }: { id: string; title: string; items: WorklistItem[]; total: number; empty: string; detail: (i: WorklistItem) => string; daysLabel: string }) {
+  const [open, setOpen] = useState(false);
+  const items = open ? all : all.slice(0, FIRST);
   return (
     <Panel title={<span id={id}>{title} <span className="ml-1 rounded-full bg-accent-soft px-2 text-sm tabular text-accent">{total.toLocaleString('en-GB')}</span></span>}>
       {items.length === 0 ? <EmptyState title="Nothing here">{empty}</EmptyState> : (
-        <div className="overflow-x-auto">
+        <div className="overflow-x-auto" tabIndex={0} role="region" aria-labelledby={id}>
           <table className="w-full text-left text-sm" aria-labelledby={id}>
             <thead className="border-b border-line text-muted"><tr><th scope="col" className="py-1 pr-3">Case</th><th scope="col" className="pr-3">Site</th><th scope="col" className="pr-3">Status</th><th scope="col" className="pr-3">Surgery</th><th scope="col" className="pr-3">What is needed</th>{daysLabel && <th scope="col" className="text-right">{daysLabel}</th>}</tr></thead>
             <tbody>
               {items.map((i) => (
                 <tr key={i.id} className="border-b border-line/60 align-top">
-                  <td className="py-1 pr-3"><Link className="font-semibold text-accent hover:underline" to={paths.cases.detail(i.id)}>{i.registryNumber}</Link></td>
+                  <td className="whitespace-nowrap py-1 pr-3"><Link className="font-semibold text-accent hover:underline" to={paths.cases.detail(i.id)}>{i.registryNumber}</Link></td>
                   <td className="pr-3">{i.siteCode}</td>
                   <td className="pr-3"><StatusBadge status={i.status} /></td>
-                  <td className="pr-3 tabular">{i.surgeryDate}</td>
+                  <td className="whitespace-nowrap pr-3 tabular">{i.surgeryDate}</td>
                   <td className="pr-3">{detail(i)}{i.overdue && <span className="ml-2 rounded bg-danger-soft px-1 text-xs font-semibold text-danger">overdue</span>}</td>
                   {daysLabel && <td className="text-right tabular">{i.days ?? '—'}</td>}
                 </tr>
               ))}
             </tbody>
           </table>
-          {total > items.length && <p className="mt-1 text-xs text-muted">Showing the first {items.length} of {total.toLocaleString('en-GB')}.</p>}
+          <div className="mt-1 flex flex-wrap items-center gap-2 text-xs text-muted">
+            {all.length > FIRST && <Button variant="ghost" className="px-0 text-xs" aria-expanded={open} onClick={() => setOpen(!open)}>{open ? `Show the first ${FIRST} only` : `Show all ${all.length} listed`}</Button>}
+            {total > all.length && <span>The list holds the {all.length} most pressing of {total.toLocaleString('en-GB')}; filter by site to narrow it.</span>}
+          </div>
         </div>
       )}
     </Panel>

@@ -20,7 +20,7 @@ interface Common<T extends FieldValues> {
 function Frame({ id, label, unit, hint, warning, error, children, className = '' }: { id: string; label: string; unit?: string; hint?: ReactNode; warning?: ReactNode; error?: string; children: ReactNode; className?: string }) {
   return (
     <div className={`flex min-w-0 flex-col gap-1 ${className}`}>
-      <label htmlFor={id} className="text-sm font-semibold">{label}{unit && <span className="font-normal text-muted"> ({unit})</span>}</label>
+      <label htmlFor={id} className="text-sm font-semibold">{label}{unit && !label.toLowerCase().includes(unit.toLowerCase()) && <span className="font-normal text-muted"> ({unit})</span>}</label>
       {children}
       {hint && !error && <p id={`${id}-hint`} className="text-xs text-muted">{hint}</p>}
       {warning && !error && <div id={`${id}-warn`} className="rounded border-l-4 border-ochre bg-warn-soft px-2 py-1 text-xs text-ink">{warning}</div>}
