@@ -1,7 +1,7 @@
 // `npm run load`: a bounded mixed read/write load on loopback against the demo data (autocannon).
 import { spawn } from 'node:child_process';
 import path from 'node:path';
-import { ROOT, log, fail, runTs, clientIsStale, buildClient } from './lib.mjs';
+import { ROOT, fail, runTs, clientIsStale, buildClient } from './lib.mjs';
 import { prepareMain } from './main-env.mjs';
 
 const { pg, env, startedHere } = prepareMain();
