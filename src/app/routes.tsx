@@ -5,6 +5,7 @@ import { AccountPage } from '../features/account/AccountPage.js';
 import { casesRoutes } from '../features/cases/routes.js';
 import { worklistRoutes } from '../features/worklist/routes.js';
 import { dictionaryRoutes } from '../features/dictionary/routes.js';
+import { committeeRoutes } from '../features/committee/routes.js';
 
 /** Every feature's pages; each feature module adds its list here. */
 export const featureRoutes: FeatureRoute[] = [
@@ -14,4 +15,5 @@ export const featureRoutes: FeatureRoute[] = [
   ...casesRoutes,
   ...worklistRoutes,
   ...dictionaryRoutes,
+  ...committeeRoutes,
 ];

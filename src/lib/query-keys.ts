@@ -16,4 +16,18 @@ export const queryKeys = {
   },
   worklist: { all: ['worklist'] as const, list: (params: Record<string, unknown>) => ['worklist', params] as const },
   dictionary: { all: ['dictionary'] as const },
+  committee: {
+    all: ['committee'] as const,
+    measures: () => ['committee', 'measures'] as const,
+    chart: (key: string, params: Record<string, unknown>) => ['committee', 'chart', key, params] as const,
+    gChart: (key: string, site: string) => ['committee', 'g-chart', key, site] as const,
+    annotations: (site: string) => ['committee', 'annotations', site] as const,
+    months: () => ['committee', 'months'] as const,
+    month: (month: string) => ['committee', 'months', month] as const,
+    packet: (month: string) => ['committee', 'packet', month] as const,
+    reviews: () => ['committee', 'reviews'] as const,
+    review: (month: string) => ['committee', 'reviews', month] as const,
+    actions: (status: string) => ['committee', 'actions', status] as const,
+    members: () => ['committee', 'members'] as const,
+  },
 };

@@ -14,7 +14,7 @@ function MeasureSection({ m, month }: { m: MeasureRow; month: string }) {
   if (chart.error) return <ErrorState error={chart.error} />;
   const c = chart.data!;
   return (
-    <section className="print-page mb-6 break-inside-avoid">
+    <section className="mb-6 break-inside-avoid print:break-after-page">
       <h2 className="text-lg font-semibold">{m.label}</h2>
       <p className="text-sm">{c.summary}</p>
       <SpcChart chart={c} mode="control" height={260} />
