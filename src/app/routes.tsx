@@ -6,6 +6,7 @@ import { casesRoutes } from '../features/cases/routes.js';
 import { worklistRoutes } from '../features/worklist/routes.js';
 import { dictionaryRoutes } from '../features/dictionary/routes.js';
 import { committeeRoutes } from '../features/committee/routes.js';
+import { exportsRoutes } from '../features/exports/routes.js';
 
 /** Every feature's pages; each feature module adds its list here. */
 export const featureRoutes: FeatureRoute[] = [
@@ -16,4 +17,5 @@ export const featureRoutes: FeatureRoute[] = [
   ...worklistRoutes,
   ...dictionaryRoutes,
   ...committeeRoutes,
+  ...exportsRoutes,
 ];

@@ -14,4 +14,5 @@ export const paths = {
   },
   worklist: '/worklist',
   dictionary: '/dictionary',
+  research: { exports: '/research/exports', request: '/research/exports/new', approvals: '/research/approvals', audit: '/research/audit' },
 };

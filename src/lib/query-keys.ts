@@ -30,4 +30,12 @@ export const queryKeys = {
     actions: (status: string) => ['committee', 'actions', status] as const,
     members: () => ['committee', 'members'] as const,
   },
+  exports: {
+    all: ['exports'] as const,
+    variables: () => ['exports', 'variables'] as const,
+    list: (scope: string) => ['exports', 'list', scope] as const,
+    detail: (id: string) => ['exports', 'detail', id] as const,
+    risk: (id: string) => ['exports', 'risk', id] as const,
+    audit: (params: Record<string, unknown>) => ['exports', 'audit', params] as const,
+  },
 };
