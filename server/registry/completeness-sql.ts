@@ -76,18 +76,22 @@ function sectionArray(section: CompletenessSection): string {
 
 const col = (s: CompletenessSection) => `missing_${s.replace('-', '_')}`;
 
-/** The body of `CREATE VIEW case_completeness AS ...`. */
+/**
+ * The body of `CREATE VIEW case_completeness AS ...`. Each section's array is computed once per
+ * case in a LATERAL subquery (OFFSET 0 keeps the planner from inlining it, which would compute
+ * every array again for `missing` and `complete`).
+ */
 export function caseCompletenessSelectSql(): string {
   const inner = COMPLETENESS_SECTIONS.map((s) => `    ${sectionArray(s)} AS ${col(s)}`).join(',\n');
-  const all = COMPLETENESS_SECTIONS.map(col).join(' || ');
-  return `SELECT x.case_id, x.site_id, x.status, ${COMPLETENESS_SECTIONS.map(col).join(', ')},
-  ${all} AS missing,
-  cardinality(${all}) = 0 AS complete
-FROM (
-  SELECT c.id AS case_id, c.site_id, c.status,
+  const all = COMPLETENESS_SECTIONS.map((s) => `m.${col(s)}`).join(' || ');
+  return `SELECT c.id AS case_id, c.site_id, c.status, ${COMPLETENESS_SECTIONS.map((s) => `m.${col(s)}`).join(', ')}, a.missing, cardinality(a.missing) = 0 AS complete
+FROM surgical_cases c
+CROSS JOIN LATERAL (
+  SELECT
 ${inner}
-  FROM surgical_cases c
-) x`;
+  OFFSET 0
+) m
+CROSS JOIN LATERAL (SELECT ${all} AS missing OFFSET 0) a`;
 }
 
 export function caseCompletenessViewSql(): string {

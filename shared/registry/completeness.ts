@@ -82,10 +82,18 @@ export interface Completeness {
 type Row = Record<string, unknown>;
 const empty = (v: unknown) => v === null || v === undefined || v === '';
 
-function sectionOf(field: CaseFieldName): CompletenessSection {
-  const s = fieldMeta(CASE_FIELDS[field])?.section;
-  return s && s !== 'registry' ? s : 'patient';
+const metaCache = new Map<CaseFieldName, { section: CompletenessSection; label: string }>();
+/** Section and label of a case field (read once from the schema's metadata). */
+function metaOf(field: CaseFieldName): { section: CompletenessSection; label: string } {
+  let m = metaCache.get(field);
+  if (!m) {
+    const meta = fieldMeta(CASE_FIELDS[field]);
+    m = { section: meta?.section && meta.section !== 'registry' ? meta.section : 'patient', label: meta?.label ?? field };
+    metaCache.set(field, m);
+  }
+  return m;
 }
+const sectionOf = (field: CaseFieldName) => metaOf(field).section;
 
 /** Which case-field rules apply to a case (eligible, not yet answered, or excluded). */
 export function rulesFor(c: Pick<CaseFields, 'eligible'>): readonly CaseFieldRule[] {
@@ -103,7 +111,7 @@ export function caseCompleteness(c: Partial<CaseFields> | Row, episodes: readonl
   for (const r of rulesFor({ eligible })) {
     if (r.when && rec[r.when.field] !== r.when.equals) continue;
     const v = rec[r.field];
-    const label = fieldMeta(CASE_FIELDS[r.field])?.label ?? r.field;
+    const label = metaOf(r.field).label;
     if (empty(v)) missing.push({ section: sectionOf(r.field), field: r.field, message: `${label} is missing` });
     else if (r.mustBe === true && v !== true) missing.push({ section: sectionOf(r.field), field: r.field, message: `${label} is not yet done` });
   }

@@ -56,11 +56,10 @@ WHERE e.removed_at IS NULL`);
         await queryRunner.query(`CREATE VIEW analysed_cases AS
 SELECT d.* FROM case_derived d WHERE d.counts_in_analysis`);
         await queryRunner.query(`CREATE VIEW case_completeness AS
-SELECT x.case_id, x.site_id, x.status, missing_patient, missing_operation, missing_therapy, missing_outcomes, missing_follow_up,
-  missing_patient || missing_operation || missing_therapy || missing_outcomes || missing_follow_up AS missing,
-  cardinality(missing_patient || missing_operation || missing_therapy || missing_outcomes || missing_follow_up) = 0 AS complete
-FROM (
-  SELECT c.id AS case_id, c.site_id, c.status,
+SELECT c.id AS case_id, c.site_id, c.status, m.missing_patient, m.missing_operation, m.missing_therapy, m.missing_outcomes, m.missing_follow_up, a.missing, cardinality(a.missing) = 0 AS complete
+FROM surgical_cases c
+CROSS JOIN LATERAL (
+  SELECT
     array_remove(ARRAY[CASE WHEN c.eligible IS DISTINCT FROM false AND c.eligible IS NULL THEN 'eligible' END,
       CASE WHEN c.eligible IS DISTINCT FROM false AND c.admission_date IS NULL THEN 'admissionDate' END,
       CASE WHEN c.eligible IS DISTINCT FROM false AND c.age IS NULL THEN 'age' END,
@@ -105,8 +104,9 @@ FROM (
       CASE WHEN c.eligible IS DISTINCT FROM false AND c.died_30d IS NULL THEN 'died30d' END,
       CASE WHEN c.eligible IS DISTINCT FROM false AND c.died_30d = true AND c.death_date IS NULL THEN 'deathDate' END,
       CASE WHEN c.eligible IS DISTINCT FROM false AND c.follow_up_completed_on IS NULL THEN 'followUpCompletedOn' END]::text[], NULL) AS missing_follow_up
-  FROM surgical_cases c
-) x`);
+  OFFSET 0
+) m
+CROSS JOIN LATERAL (SELECT m.missing_patient || m.missing_operation || m.missing_therapy || m.missing_outcomes || m.missing_follow_up AS missing OFFSET 0) a`);
     }
 
     public async down(queryRunner: QueryRunner): Promise<void> {
