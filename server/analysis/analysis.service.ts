@@ -20,7 +20,6 @@ import type { CohortFilter } from '../../shared/analysis/cohort-filter.js';
 import {
   ARISCAT_PUBLISHED_CLASS_RISK,
   COHORT_PAGE_MEASURES,
-  MEASURES,
   measureByKey,
   type MeasureDefinition,
   type MeasureKey,
@@ -268,9 +267,9 @@ export async function compareCohorts(ds: DataSource, a: CohortFilter, b: CohortF
   const [cellsA, cellsB, losA, losB] = await Promise.all([
     cellTotals(ds, a, ['ariscat']), cellTotals(ds, bFilter, ['ariscat']), losFrequencies(ds, a), losFrequencies(ds, bFilter),
   ]);
-  let classesA = byAriscat(cellsA);
+  const classesA = byAriscat(cellsA);
   let classesB = byAriscat(cellsB);
-  let totA = sumTotals(cellsA);
+  const totA = sumTotals(cellsA);
   let totB = sumTotals(cellsB);
   let losBTable = losB;
   if (b === 'rest') {
@@ -325,13 +324,12 @@ export async function compareCohorts(ds: DataSource, a: CohortFilter, b: CohortF
   });
   const mw = losA.length && losBTable.length ? safe(() => compareMediansFromCounts(losA, losBTable), null) : null;
   const losHidden = viewer.suppress && [losA, losBTable].some((t) => { const n = t.reduce((s, r) => s + r.count, 0); return n >= 1 && n < SUPPRESS_MIN; });
-  const fakeTotals = { level };
   return {
     level,
     expected: opts.expected,
     bIsRest: b === 'rest',
-    a: ratesFrom(totA, a, fakeTotals, viewer),
-    b: { ...ratesFrom(totB, bFilter, fakeTotals, viewer), source: b === 'rest' ? sourceOf(a) : sourceOf(bFilter) },
+    a: ratesFrom(totA, a, { level }, viewer),
+    b: { ...ratesFrom(totB, bFilter, { level }, viewer), source: b === 'rest' ? sourceOf(a) : sourceOf(bFilter) },
     outcomes,
     los: mw && !losHidden
       ? { medianA: mw.medianA, medianB: mw.medianB, u: mw.u, p: mw.p, note: null }
@@ -370,9 +368,8 @@ export async function measureSeries(ds: DataSource, filter: CohortFilter, opts: 
       ? uChart(withCases.map((x) => ({ events: x.c.events, exposure: x.c.denominator })), { per: m.per ?? 1000 })
       : pChart(withCases.map((x) => ({ events: x.c.events, total: x.c.denominator })))), null)
     : null;
-  const scale = m.kind === 'rate' ? 1 : 1;
   const limits = new Map<number, { lcl: number; ucl: number; outside: boolean }>();
-  chart?.points.forEach((pt, j) => limits.set(withCases[j].i, { lcl: pt.lower * scale, ucl: pt.upper * scale, outside: pt.outside }));
+  chart?.points.forEach((pt, j) => limits.set(withCases[j].i, { lcl: pt.lower, ucl: pt.upper, outside: pt.outside }));
   const values = results.map((r) => r.interval.estimate);
   const rc = values.some((v) => v != null) ? safe(() => runChart(values), null) : null;
   return {
@@ -444,4 +441,3 @@ export async function siteFunnel(ds: DataSource, filter: CohortFilter, opts: Pic
   };
 }
 
-export const ALL_MEASURES = MEASURES;

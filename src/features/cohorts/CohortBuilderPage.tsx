@@ -23,7 +23,7 @@ const SHARERS = ['admin', 'analyst', 'committee'];
 /** Cohort builder and cohort page: filters in the URL, results from the server's aggregates. */
 export function CohortBuilderPage() {
   const [params, setParams] = useSearchParams();
-  const { user } = useSession();
+  const user = useSession().data?.user;
   const canListSites = !!user && user.roles.some((r) => r !== 'researcher');
   const sites = useCohortSites(canListSites);
   const level = params.get('level') ?? '0.95';

@@ -131,7 +131,7 @@ describe('analysis service against independent SQL over the registry tables', ()
     expect(res.status).toBe(200);
     expect(res.headers['content-type']).toContain('spreadsheetml');
     const wb = new ExcelJS.Workbook();
-    await wb.xlsx.load(res.body as Buffer);
+    await wb.xlsx.load(res.body as unknown as ArrayBuffer);
     const results = wb.getWorksheet('Results')!;
     const rows = new Map<string, ExcelJS.Row>();
     results.eachRow((row, i) => { if (i > 1) rows.set(String(row.getCell(1).value), row); });
