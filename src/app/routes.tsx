@@ -7,6 +7,7 @@ import { worklistRoutes } from '../features/worklist/routes.js';
 import { dictionaryRoutes } from '../features/dictionary/routes.js';
 import { committeeRoutes } from '../features/committee/routes.js';
 import { exportsRoutes } from '../features/exports/routes.js';
+import { cohortsRoutes } from '../features/cohorts/routes.js';
 
 /** Every feature's pages; each feature module adds its list here. */
 export const featureRoutes: FeatureRoute[] = [
@@ -18,4 +19,5 @@ export const featureRoutes: FeatureRoute[] = [
   ...dictionaryRoutes,
   ...committeeRoutes,
   ...exportsRoutes,
+  ...cohortsRoutes,
 ];

@@ -12,6 +12,7 @@ export const paths = {
     detail: (id: string) => `/cases/${id}`,
     edit: (id: string) => `/cases/${id}/edit`,
   },
+  cohorts: { builder: '/cohorts', compare: '/cohorts/compare', funnel: '/cohorts/funnel' },
   worklist: '/worklist',
   dictionary: '/dictionary',
   research: { exports: '/research/exports', request: '/research/exports/new', approvals: '/research/approvals', audit: '/research/audit' },

@@ -14,6 +14,14 @@ export const queryKeys = {
     detail: (id: string) => ['cases', 'detail', id] as const,
     audit: (id: string, includeReads = false) => ['cases', 'detail', id, 'audit', { includeReads }] as const,
   },
+  analysis: {
+    all: ['analysis'] as const,
+    cohort: (query: string) => ['analysis', 'cohort', query] as const,
+    compare: (query: string) => ['analysis', 'compare', query] as const,
+    series: (query: string) => ['analysis', 'series', query] as const,
+    funnel: (query: string) => ['analysis', 'funnel', query] as const,
+  },
+  cohorts: { all: ['cohorts'] as const, list: () => ['cohorts', 'list'] as const },
   worklist: { all: ['worklist'] as const, list: (params: Record<string, unknown>) => ['worklist', params] as const },
   dictionary: { all: ['dictionary'] as const },
   committee: {
