@@ -5,6 +5,7 @@ import { demoSeedSteps } from './steps.js';
 // Registers the demo cases step first: later areas' demo data builds on the cases.
 import './cases.js';
 import '../../committee/demo-seed.js';
+import '../../quality/demo-seed.js';
 
 /** Loads the demo scenario into an empty database (sites, units, users, then each area's step). */
 export async function seedDemo(ds: DataSource, opts: { bcryptCost: number; log?: (m: string) => void }): Promise<void> {
