@@ -42,9 +42,9 @@ export function proposedMapping(view: { sheets: { kind: string; proposed: Record
 /** Upload, dry run with the proposed mapping; returns the import view after the dry run. */
 export async function uploadAndDryRun(t: TestApp, c: Client, file: Buffer, name: string, fields: Record<string, string>, mapping?: Record<string, Record<string, string | null>>) {
   const up = await upload(c, file, name, fields);
-  if (up.status !== 201) return { up, view: null as any };
+  if (up.status !== 201) throw new Error(`upload answered ${up.status} ${JSON.stringify(up.body)}`);
   const dr = await c.post(`/api/imports/${up.body.id}/dry-run`, { mapping: mapping ?? proposedMapping(up.body) });
-  if (dr.status !== 202) return { up, dr, view: null as any };
+  if (dr.status !== 202) throw new Error(`dry run answered ${dr.status} ${JSON.stringify(dr.body)}`);
   await drainJobs(t);
   const view = (await c.get(`/api/imports/${up.body.id}`)).body;
   return { up, dr, view };

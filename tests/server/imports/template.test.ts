@@ -48,7 +48,8 @@ describe('import template', () => {
     expect(up.status, JSON.stringify(up.body)).toBe(201);
     expect(up.body.sheets.map((s: { kind: string }) => s.kind)).toEqual(['cases', 'therapy', 'outcomes']);
     expect(view.status, JSON.stringify(view)).toBe('validated');
-    expect(view.counts.rejected, JSON.stringify((await c.get(`/api/imports/${view.id}/problems`)).body)).toBe(0);
+    const probs = (await c.get(`/api/imports/${view.id}/problems`)).body.items;
+    expect(view.counts.rejected, JSON.stringify(probs)).toBe(0);
     expect(view.counts.byKind.cases.new).toBe(2);
     expect(view.counts.byKind.therapy.new).toBe(2);
     expect(view.counts.byKind.outcomes.new).toBe(1);
@@ -58,7 +59,7 @@ describe('import template', () => {
     const after = (await c.get(`/api/imports/${view.id}`)).body;
     expect(after.status, JSON.stringify(after)).toBe('committed');
     expect(after.fileDeleted).toBe(true);
-    const rows = await t.ds.query(`SELECT c.registry_number, c.created_via, (SELECT count(*)::int FROM therapy_episodes e WHERE e.case_id = c.id) AS episodes FROM surgical_cases c WHERE c.created_via = 'import' ORDER BY c.registry_number`);
+    const rows = await t.ds.query(`SELECT c.registry_number, c.created_via, (SELECT count(*)::int FROM therapy_episodes e WHERE e.case_id = c.id) AS episodes FROM surgical_cases c WHERE c.id::text IN (SELECT entity_id FROM audit_entries WHERE action = 'case-created' AND details->>'importId' = $1) ORDER BY c.registry_number`, [view.id]);
     expect(rows).toHaveLength(2);
     expect(rows.map((r: { episodes: number }) => r.episodes)).toEqual([1, 1]);
     void upload;
