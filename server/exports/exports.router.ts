@@ -59,7 +59,8 @@ a.get('/:id', ANY_EXPORT_ROLE, async (req) => {
 a.get('/:id/risk', ['admin'], async (req) => {
   const { id } = parse(IdParamSchema, req.params, 'address');
   const { ds, readDs } = ctx(req);
-  return riskReport(readDs, await loadRequest(ds, currentUser(req), id));
+  const { sizes: _sizes, ...report } = await riskReport(readDs, await loadRequest(ds, currentUser(req), id));
+  return report;
 });
 
 a.post('/:id/decision', ['admin'], async (req) => {

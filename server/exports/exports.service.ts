@@ -148,13 +148,15 @@ export async function createRequest(c: RequestContext, user: SessionUser, input:
 }
 
 /** The k-anonymity check over the export's quasi-identifiers, as requested and after coarsening. */
-export async function riskReport(ds: DataSource, row: Record<string, any>): Promise<RiskReport> {
+export async function riskReport(ds: DataSource, row: Record<string, any>): Promise<RiskReport & { sizes: { asRequested: number[]; coarsened: number[] } }> {
   const cohort = CohortFilterSchema.parse(row.cohort ?? {});
   const variables = row.kind === 'rows' ? resolveVariables(row.fields, 'fields') : [];
-  const sizes = async (coarsen: boolean): Promise<{ s: KAnonymitySummary; q: string[] }> => {
-    const q = classSizesSql({ cohort, variables, level: row.level, coarsen });
+  const sizes = async (coarsen: boolean): Promise<{ s: KAnonymitySummary; q: string[]; n: number[] }> => {
+    // Coarsening drops the unit codes, as the generated file does.
+    const q = classSizesSql({ cohort, variables: coarsen ? variables.filter((v) => v.name !== 'unit') : variables, level: row.level, coarsen });
     const rows: { n: number }[] = await ds.query(q.sql, q.params);
-    return { s: kAnonymity(rows.map((r) => r.n)), q: q.quasiIdentifiers };
+    const n = rows.map((r) => r.n);
+    return { s: kAnonymity(n), q: q.quasiIdentifiers, n };
   };
   const asRequested = await sizes(false);
   const coarsened = await sizes(true);
@@ -165,7 +167,15 @@ export async function riskReport(ds: DataSource, row: Record<string, any>): Prom
     : asRequested.s.k >= K_THRESHOLD || asRequested.s.records === 0
       ? `Every combination of ${labels.join(', ') || 'the quasi-identifiers'} holds at least ${K_THRESHOLD} records (k = ${asRequested.s.k}).`
       : `${asRequested.s.classesBelow} combination${asRequested.s.classesBelow === 1 ? '' : 's'} of ${labels.join(', ')} hold fewer than ${K_THRESHOLD} records (${asRequested.s.recordsBelow} records; smallest k = ${asRequested.s.k}). Coarsen (k would be ${coarsened.s.k}) or suppress those records before approving.`;
-  return { quasiIdentifiers: asRequested.q, asRequested: asRequested.s, coarsened: coarsened.s, applies, message };
+  return { quasiIdentifiers: asRequested.q, asRequested: asRequested.s, coarsened: coarsened.s, applies, message, sizes: { asRequested: asRequested.n, coarsened: coarsened.n } };
+}
+
+/** The k-anonymity of the file that the chosen action produces (coarsening, then suppression of classes under k). */
+export function riskAfter(r: { sizes: { asRequested: number[]; coarsened: number[] } }, action: string): KAnonymitySummary {
+  const coarse = action === 'coarsen' || action === 'coarsen-and-suppress';
+  const suppress = action === 'suppress' || action === 'coarsen-and-suppress';
+  const sizes = coarse ? r.sizes.coarsened : r.sizes.asRequested;
+  return kAnonymity(suppress ? sizes.filter((n) => n >= K_THRESHOLD) : sizes);
 }
 
 export async function decide(c: RequestContext, user: SessionUser, id: string, d: ExportDecision, who: Actor): Promise<ExportRequestView> {
@@ -195,9 +205,9 @@ export async function decide(c: RequestContext, user: SessionUser, id: string, d
     const [job] = await tx.query(`INSERT INTO jobs (kind, payload, created_by) VALUES ($1, $2, $3) RETURNING id`, [EXPORT_JOB_KIND, JSON.stringify({ requestId: id }), row.requester_id]);
     await tx.query(
       `UPDATE export_requests SET status = 'approved', decided_by = $2, decided_at = now(), decision_reason = $3, site_names_approved = $4, risk_action = $5, risk = $6, job_id = $7 WHERE id = $1`,
-      [id, user.id, d.reason, siteNames, risk.applies ? d.riskAction : 'none', JSON.stringify(risk.asRequested), job.id],
+      [id, user.id, d.reason, siteNames, risk.applies ? d.riskAction : 'none', JSON.stringify(risk.applies ? riskAfter(risk, d.riskAction) : null), job.id],
     );
-    await audit(tx, { ...who, action: 'export-approve', entity: 'export_request', entityId: id, reason: d.reason, details: { siteNamesApproved: siteNames, riskAction: d.riskAction, acceptRisk: d.acceptRisk, k: risk.asRequested.k, classesBelow: risk.asRequested.classesBelow, jobId: job.id } });
+    await audit(tx, { ...who, action: 'export-approve', entity: 'export_request', entityId: id, reason: d.reason, details: { siteNamesApproved: siteNames, riskAction: d.riskAction, acceptRisk: d.acceptRisk, k: risk.asRequested.k, kAfter: risk.applies ? riskAfter(risk, d.riskAction).k : null, classesBelow: risk.asRequested.classesBelow, jobId: job.id } });
   });
   await c.mailer.send({ to: requester.email, subject: 'Alveolog: your research export request was approved', text: `Your export request was approved by ${user.displayName}.\n\nReason: ${d.reason}\n\nThe file is being generated; you will get another e-mail when it is ready to download at ${c.appUrl}/research/exports\n` });
   return getRequest(c.ds, user, id);

@@ -74,7 +74,7 @@ export function exportCatalog(dictionary: readonly DictionaryEntry[]): ExportVar
   for (const [field, name] of Object.entries(DAY_OFFSETS)) {
     const d = byName.get(field);
     if (!d || d.freeText || !present('surgeryDate')) continue;
-    out.push({ name, label: `${d.label} (day relative to surgery)`, section: d.section, type: 'whole number', unit: 'days (0 = surgery day, negative = before)', allowedValues: '',
+    out.push({ name, label: `${d.label}, as days from surgery`, section: d.section, type: 'whole number', unit: 'days', allowedValues: '0 = surgery day; negative = before surgery',
       definition: `${d.definition} Exported as days after the surgery date.`,
       deidentification: `date replaced by days relative to surgery (${SAFE_HARBOR}(i)(C))`, source: { kind: 'derived', rule: 'daysFromSurgery', field } });
   }

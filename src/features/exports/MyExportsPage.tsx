@@ -6,6 +6,7 @@ import { paths } from '../../lib/paths.js';
 import { useExports } from './api/get-exports.js';
 import { ExportProgress, ExportStatus } from './components/export-status.js';
 
+const fmtBytes = (n: number) => (n < 1024 * 1024 ? `${Math.max(1, Math.round(n / 1024))} KB` : `${(n / 1048576).toFixed(1)} MB`);
 const fmtDate = (iso: string | null) => (iso ? new Date(iso).toLocaleString('en-GB', { dateStyle: 'medium', timeStyle: 'short' }) : '—');
 const describe = (r: ExportRequestView) =>
   r.kind === 'aggregate' ? `Aggregate table by ${r.rowsBy}${r.colsBy ? ` × ${r.colsBy}` : ''}` : `${r.fields.length} variables + study id`;
@@ -34,7 +35,7 @@ const COLUMNS: ColumnDef<ExportRequestView>[] = [
       return (
         <a className="inline-flex items-center rounded bg-accent px-3 py-1.5 text-sm font-semibold text-white hover:bg-accent-strong" href={`/api/exports/${r.id}/file`} download>
           Download <span className="sr-only">{r.file.name}</span>
-          <span className="ml-1 font-normal tabular-nums">({(r.file.bytes / 1048576).toFixed(1)} MB, {r.file.rows.toLocaleString('en')} rows{r.file.sheets > 1 ? `, ${r.file.sheets} sheets` : ''})</span>
+          <span className="ml-1 font-normal tabular-nums">({fmtBytes(r.file.bytes)}, {r.file.rows.toLocaleString('en')} rows{r.file.sheets > 1 ? `, ${r.file.sheets} sheets` : ''})</span>
         </a>
       );
     },

@@ -76,13 +76,13 @@ function FieldPicker({ variables, chosen, setChosen }: { variables: ExportVariab
             </legend>
             <div className="mt-1 grid gap-x-4 gap-y-1 sm:grid-cols-2 xl:grid-cols-3">
               {list.map((v) => (
-                <label key={v.name} className="flex items-start gap-2 text-sm" title={v.definition}>
-                  <input type="checkbox" className="mt-1" checked={chosen.includes(v.name)} onChange={() => setChosen(toggle(chosen, v.name))} />
+                <div key={v.name} className="flex items-start gap-2 text-sm" title={v.definition}>
+                  <input id={`var-${v.name}`} type="checkbox" className="mt-1" checked={chosen.includes(v.name)} onChange={() => setChosen(toggle(chosen, v.name))} aria-describedby={v.deidentification ? `var-${v.name}-deid` : undefined} />
                   <span>
-                    {v.label}{v.unit ? <span className="text-muted"> ({v.unit})</span> : null}
-                    {v.deidentification && <span className="block text-xs text-muted">De-identified: {v.deidentification.replace(/ \(HIPAA.*$/, '')}</span>}
+                    <label htmlFor={`var-${v.name}`}>{v.label}{v.unit ? <span className="text-muted"> ({v.unit})</span> : null}</label>
+                    {v.deidentification && <span id={`var-${v.name}-deid`} className="block text-xs text-muted">De-identified: {v.deidentification.replace(/ \(HIPAA.*$/, '')}</span>}
                   </span>
-                </label>
+                </div>
               ))}
             </div>
           </fieldset>

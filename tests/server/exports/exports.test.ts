@@ -296,6 +296,11 @@ describe('a limited data set as CSV', () => {
       classes.set(key, (classes.get(key) ?? 0) + 1);
     }
     expect(Math.min(...classes.values())).toBeGreaterThanOrEqual(5);
+    // The README states the k of the file as released (after suppression), and the approval is audited with both.
+    const k = Number(/smallest class k = (\d+)/.exec(zip.get('README.txt')!)![1]);
+    expect(k).toBeGreaterThanOrEqual(5);
+    const [entry] = await t.ds.query(`SELECT details FROM audit_entries WHERE entity_id = $1 AND action = 'export-approve'`, [id]);
+    expect(entry.details).toMatchObject({ riskAction: 'suppress', k: 1, kAfter: 6 });
   });
 
   it('when coarsening was chosen, then ages leave as 20-year bands and unit codes are dropped', async () => {
