@@ -8,6 +8,7 @@ import { dictionaryRoutes } from '../features/dictionary/routes.js';
 import { committeeRoutes } from '../features/committee/routes.js';
 import { exportsRoutes } from '../features/exports/routes.js';
 import { cohortsRoutes } from '../features/cohorts/routes.js';
+import { qualityRoutes } from '../features/quality/routes.js';
 
 /** Every feature's pages; each feature module adds its list here. */
 export const featureRoutes: FeatureRoute[] = [
@@ -20,4 +21,5 @@ export const featureRoutes: FeatureRoute[] = [
   ...committeeRoutes,
   ...exportsRoutes,
   ...cohortsRoutes,
+  ...qualityRoutes,
 ];

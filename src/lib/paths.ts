@@ -15,5 +15,13 @@ export const paths = {
   cohorts: { builder: '/cohorts', compare: '/cohorts/compare', funnel: '/cohorts/funnel' },
   worklist: '/worklist',
   dictionary: '/dictionary',
+  quality: {
+    completeness: '/quality',
+    capture: '/quality/capture',
+    reabstraction: '/quality/reabstraction',
+    entry: (id: string) => `/quality/reabstraction/${id}/entry`,
+    report: (id: string) => `/quality/reabstraction/${id}/report`,
+    findings: '/quality/findings',
+  },
   research: { exports: '/research/exports', request: '/research/exports/new', approvals: '/research/approvals', audit: '/research/audit' },
 };

@@ -46,4 +46,14 @@ export const queryKeys = {
     risk: (id: string) => ['exports', 'risk', id] as const,
     audit: (params: Record<string, unknown>) => ['exports', 'audit', params] as const,
   },
+  quality: {
+    all: ['quality'] as const,
+    completeness: (params: Record<string, unknown>) => ['quality', 'completeness', params] as const,
+    capture: (params: Record<string, unknown>) => ['quality', 'capture', params] as const,
+    samples: () => ['quality', 'samples'] as const,
+    abstractors: (siteIds: readonly string[]) => ['quality', 'abstractors', siteIds] as const,
+    blind: (id: string) => ['quality', 'samples', id, 'blind'] as const,
+    report: (id: string) => ['quality', 'samples', id, 'report'] as const,
+    findings: (params: Record<string, unknown>) => ['quality', 'findings', params] as const,
+  },
 };

@@ -176,7 +176,7 @@ describe('re-abstraction agreement', () => {
     });
     expect(r.status).toBe(200);
     const wb = new ExcelJS.Workbook();
-    await wb.xlsx.load(r.body as Buffer);
+    await wb.xlsx.load(r.body as unknown as ArrayBuffer);
     const ws = wb.getWorksheet('Agreement')!;
     const header = (ws.getRow(1).values as unknown[]).slice(1);
     const sexRow = ws.getRows(2, ws.rowCount - 1)!.find((row) => row.getCell(1).value === 'Sex')!;
