@@ -44,6 +44,8 @@ function assertDuaCurrent(dua: { reference: string; expiresOn: string } | null, 
 const iso = (d: unknown) => (d ? new Date(d as string).toISOString() : null);
 
 function toView(r: Record<string, any>, user: SessionUser): ExportRequestView {
+  // A job that died with its server (failed or cancelled) leaves the request 'generating': show it as failed.
+  if ((r.status === 'generating' || r.status === 'approved') && (r.job_status === 'failed' || r.job_status === 'cancelled')) r = { ...r, status: 'failed' };
   const ready = r.status === 'ready' && r.expires_at && new Date(r.expires_at) > new Date() && !r.deleted_at;
   return {
     id: r.id,
@@ -76,7 +78,7 @@ function toView(r: Record<string, any>, user: SessionUser): ExportRequestView {
 }
 
 const SELECT = `SELECT r.*, to_char(r.dua_expires_on, 'YYYY-MM-DD') AS dua_expires_text, u.display_name AS requester_name, u.email AS requester_email, d.display_name AS decider_name,
-    j.progress AS job_progress, j.error AS job_error
+    j.progress AS job_progress, j.error AS job_error, j.status AS job_status
   FROM export_requests r JOIN users u ON u.id = r.requester_id LEFT JOIN users d ON d.id = r.decided_by LEFT JOIN jobs j ON j.id = r.job_id`;
 
 /** Raw row of a request the user may see (the requester or an admin); others get 404. */
