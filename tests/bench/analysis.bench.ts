@@ -21,6 +21,8 @@ export default async function analysisBench(b: Bench): Promise<void> {
     if (r.status !== 200) throw new Error(`${url} -> ${r.status} ${JSON.stringify(r.body).slice(0, 300)}`);
     return r.body;
   };
+  // The fixed cost of any signed-in API request (session and user lookup, JSON): the floor under every ratio.
+  await b.time('baseline: signed-in request (GET /api/auth/me)', '-', () => must('/api/auth/me'));
   for (const [name, f] of Object.entries(b.cohorts)) {
     const size = ((await must(`/api/analysis/rates?${qs(f)}`)) as { size: number }).size;
     b.log(`cohort ${name}: ${size.toLocaleString('en')} counted cases`);

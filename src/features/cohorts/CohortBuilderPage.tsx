@@ -49,7 +49,7 @@ export function CohortBuilderPage() {
         </>}
       />
       <ClinicalCaution />
-      <div className="grid grid-cols-1 gap-4 lg:grid-cols-[20rem_1fr]">
+      <div className="grid grid-cols-1 gap-4 lg:grid-cols-[20rem_1fr] print:block">
         <aside className="no-print flex flex-col gap-3">
           <Panel>
             <CohortFilterForm legend="Filters" params={params} onChange={update} sites={sites.data?.items} />
@@ -70,7 +70,7 @@ export function CohortBuilderPage() {
           </Panel>
           <SavePanel filterQuery={filterQuery} canShare={!!user && user.roles.some((r) => SHARERS.includes(r))} />
         </aside>
-        <section className="flex min-w-0 flex-col gap-4" aria-live="polite">
+        <section className="flex min-w-0 flex-col gap-4 print:w-full" aria-live="polite">
           {!parsedFilter.success && <Notice tone="danger">{parsedFilter.error.issues.map((i) => `${i.path.join('.')}: ${i.message}`).join('; ')}</Notice>}
           {page.isPending ? <Loading what="the cohort" /> : page.isError ? <ErrorState error={page.error} retry={() => page.refetch()} /> : (
             <>
@@ -85,14 +85,14 @@ export function CohortBuilderPage() {
               {page.data.size !== 0 && (
                 <>
                   <Panel title={<>Outcomes with {levelLabel(page.data.level)} confidence intervals <MethodTip text={page.data.methods[1]} /></>}>
-                    <div className="grid grid-cols-1 gap-4 xl:grid-cols-2 print:grid-cols-1">
+                    <div className="grid grid-cols-1 gap-4 2xl:grid-cols-2 print:grid-cols-1">
                       <MeasureChart measures={page.data.measures} level={page.data.level} />
                       <MeasuresTable measures={page.data.measures} level={page.data.level} caption="Outcomes of the cohort" />
                     </div>
                   </Panel>
                   <Panel title={<>Any PPC by {grouping} <MethodTip text="p-chart: 3-sigma limits for each period's number of cases (Provost & Murray 2011)." /></>}>
                     {series.isPending ? <Loading what="the series" /> : series.isError ? <ErrorState error={series.error} /> : (
-                      <div className="grid grid-cols-1 gap-4 xl:grid-cols-2 print:grid-cols-1">
+                      <div className="grid grid-cols-1 gap-4 2xl:grid-cols-2 print:grid-cols-1">
                         <SeriesChart series={series.data} />
                         <DataTable
                           caption={`Any PPC by ${grouping}`}
@@ -108,7 +108,7 @@ export function CohortBuilderPage() {
                     )}
                   </Panel>
                   <Panel title={<>Length of stay <MethodTip text="Median and quartiles from the frequency table of lengths of stay (R type 7)." /></>}>
-                    <div className="grid grid-cols-1 gap-4 xl:grid-cols-2 print:grid-cols-1">
+                    <div className="grid grid-cols-1 gap-4 2xl:grid-cols-2 print:grid-cols-1">
                       <LosHistogram los={page.data.los} />
                       <LosTable los={page.data.los} />
                     </div>

@@ -55,7 +55,7 @@ export function ComparePage() {
         </>}
       />
       <ClinicalCaution />
-      <div className="grid grid-cols-1 gap-4 lg:grid-cols-[20rem_1fr]">
+      <div className="grid grid-cols-1 gap-4 lg:grid-cols-[20rem_1fr] print:block">
         <aside className="no-print flex flex-col gap-3">
           <Panel><CohortFilterForm legend="Cohort A" prefix="a." params={params} onChange={update} sites={sites.data?.items} /></Panel>
           <Panel>
@@ -81,7 +81,7 @@ export function ComparePage() {
             </label>
           </Panel>
         </aside>
-        <section className="flex min-w-0 flex-col gap-4" aria-live="polite">
+        <section className="flex min-w-0 flex-col gap-4 print:w-full" aria-live="polite">
           {cmp.isPending ? <Loading what="the comparison" /> : cmp.isError ? <ErrorState error={cmp.error} retry={() => cmp.refetch()} /> : (
             <>
               <Panel title={`A: ${fmtCount(cmp.data.a.size)} cases · ${cmp.data.bIsRest ? 'rest of the network' : 'B'}: ${fmtCount(cmp.data.b.size)} cases`}>
@@ -99,7 +99,7 @@ export function ComparePage() {
                   <p className="text-sm">Median A {cmp.data.los.medianA} days, median B {cmp.data.los.medianB} days; Mann–Whitney U = {cmp.data.los.u?.toLocaleString('en')}, p = {fmtP(cmp.data.los.p)}.</p>
                 )}
               </Panel>
-              <div className="grid grid-cols-1 gap-4 xl:grid-cols-2 print:grid-cols-1">
+              <div className="grid grid-cols-1 gap-4">
                 <Panel title="Cohort A"><MeasuresTable measures={cmp.data.a.measures} level={cmp.data.level} caption="Outcomes of A" /></Panel>
                 <Panel title={cmp.data.bIsRest ? 'Rest of the network' : 'Cohort B'}><MeasuresTable measures={cmp.data.b.measures} level={cmp.data.level} caption="Outcomes of B" /></Panel>
               </div>

@@ -32,7 +32,7 @@ export function FunnelPage() {
           <Button variant="secondary" onClick={() => window.print()}>Print</Button>
         </>} />
       <ClinicalCaution />
-      <div className="grid grid-cols-1 gap-4 lg:grid-cols-[20rem_1fr]">
+      <div className="grid grid-cols-1 gap-4 lg:grid-cols-[20rem_1fr] print:block">
         <aside className="no-print flex flex-col gap-3">
           <Panel>
             <label className="mb-2 flex flex-col text-sm font-semibold">Measure
@@ -43,11 +43,11 @@ export function FunnelPage() {
             <CohortFilterForm legend="Cases" params={params} onChange={update} sites={sites.data?.items} />
           </Panel>
         </aside>
-        <section className="flex min-w-0 flex-col gap-4" aria-live="polite">
+        <section className="flex min-w-0 flex-col gap-4 print:w-full" aria-live="polite">
           {funnel.isPending ? <Loading what="the funnel plot" /> : funnel.isError ? <ErrorState error={funnel.error} retry={() => funnel.refetch()} /> : (
             <>
               <Panel title={<>{funnel.data.label}: network {funnel.data.target == null ? '—' : `${(funnel.data.target * 100).toFixed(1)}%`} <MethodTip text={funnel.data.methods[1]} /></>}>
-                <div className="grid grid-cols-1 gap-4 xl:grid-cols-2 print:grid-cols-1">
+                <div className="grid grid-cols-1 gap-4 2xl:grid-cols-2 print:grid-cols-1">
                   <FunnelChart funnel={funnel.data} />
                   <DataTable caption="Sites against the funnel" data={funnel.data.sites} columns={[
                     { header: 'Site', accessorKey: 'label' },

@@ -7,7 +7,7 @@ import { flexRender, getCoreRowModel, useReactTable, type ColumnDef } from '@tan
 export function DataTable<T>({ columns, data, caption }: { columns: ColumnDef<T, unknown>[]; data: T[]; caption: string }) {
   const table = useReactTable({ data, columns, getCoreRowModel: getCoreRowModel(), manualSorting: true, manualPagination: true });
   return (
-    <div className="overflow-x-auto print:overflow-visible">
+    <div className="overflow-x-auto print:overflow-visible" tabIndex={0} role="region" aria-label={`${caption} (scrolls sideways)`}>
       <table className="w-full border-collapse text-sm">
         <caption className="mb-1 text-left text-sm font-semibold">{caption}</caption>
         <thead>
@@ -20,7 +20,7 @@ export function DataTable<T>({ columns, data, caption }: { columns: ColumnDef<T,
         <tbody>
           {table.getRowModel().rows.map((r) => (
             <tr key={r.id} className="border-b border-line/60 align-top">
-              {r.getVisibleCells().map((c) => <td key={c.id} className="tabular px-2 py-1">{flexRender(c.column.columnDef.cell, c.getContext())}</td>)}
+              {r.getVisibleCells().map((c) => <td key={c.id} className="tabular px-2 py-1 first:min-w-40 [&:not(:first-child)]:whitespace-nowrap print:whitespace-normal">{flexRender(c.column.columnDef.cell, c.getContext())}</td>)}
             </tr>
           ))}
         </tbody>
