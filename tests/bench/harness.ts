@@ -81,7 +81,7 @@ export interface Bench {
 
 const log = (m: string) => process.stdout.write(`[bench] ${m}\n`);
 
-function inputsHash(): string {
+export function inputsHash(): string {
   const h = createHash('sha256');
   h.update(String(BENCH_CASES));
   const walk = (file: string) => { if (fs.existsSync(file)) h.update(fs.readFileSync(file)); };
