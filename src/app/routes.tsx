@@ -3,6 +3,7 @@ import { adminRoutes } from '../features/admin/routes.js';
 import { HomePage } from '../features/home/HomePage.js';
 import { AccountPage } from '../features/account/AccountPage.js';
 import { casesRoutes } from '../features/cases/routes.js';
+import { importsRoutes } from '../features/imports/routes.js';
 import { worklistRoutes } from '../features/worklist/routes.js';
 import { dictionaryRoutes } from '../features/dictionary/routes.js';
 import { committeeRoutes } from '../features/committee/routes.js';
@@ -16,6 +17,7 @@ export const featureRoutes: FeatureRoute[] = [
   { path: '/account', element: <AccountPage />, roles: 'signed-in' },
   ...adminRoutes,
   ...casesRoutes,
+  ...importsRoutes,
   ...worklistRoutes,
   ...dictionaryRoutes,
   ...committeeRoutes,

@@ -8,6 +8,13 @@ export const queryKeys = {
   sites: { all: ['sites'] as const, list: () => ['sites', 'list'] as const },
   mail: { list: () => ['mail', 'list'] as const },
   jobs: { detail: (id: string) => ['jobs', id] as const },
+  imports: {
+    all: ['imports'] as const,
+    list: (params: Record<string, unknown>) => ['imports', 'list', params] as const,
+    detail: (id: string) => ['imports', 'detail', id] as const,
+    problems: (id: string, params: Record<string, unknown>) => ['imports', 'detail', id, 'problems', params] as const,
+    presets: (siteId: string) => ['imports', 'presets', siteId] as const,
+  },
   cases: {
     all: ['cases'] as const,
     list: (params: Record<string, unknown>) => ['cases', 'list', params] as const,

@@ -6,7 +6,7 @@ import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import fs from 'node:fs';
 import { uploadDir } from '../../../server/imports/storage.js';
 import { startTestApp, type TestApp, type Client } from '../helpers.js';
-import { freshDataDir, drainJobs, proposedMapping, siteId, upload, uploadAndDryRun, workbook } from './support.js';
+import { freshDataDir, drainJobs, siteId, upload, uploadAndDryRun, workbook } from './support.js';
 
 let t: TestApp;
 let c: Client;

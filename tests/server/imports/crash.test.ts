@@ -13,7 +13,7 @@ import { startServerProcess, waitFor, type ServerProcess } from './server-proces
 const ROWS = 2500;
 const MARK_DATE = '2026-08-08';
 let db: DataSource;
-let servers: ServerProcess[] = [];
+const servers: ServerProcess[] = [];
 const dataDir = freshDataDir();
 const env = { DATA_DIR: dataDir, IMPORT_BATCH_ROWS: '25', LOG_LEVEL: 'warn' };
 

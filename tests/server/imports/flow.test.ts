@@ -104,7 +104,7 @@ describe('re-upload, history, problems, presets, abandon, retention', () => {
     const x = await c.get(`/api/imports/${bad.id}/problems.xlsx`).buffer(true).parse((res, cb) => { const b: Buffer[] = []; res.on('data', (d: Buffer) => b.push(d)); res.on('end', () => cb(null, Buffer.concat(b))); });
     expect(x.status).toBe(200);
     const wb = new ExcelJS.Workbook();
-    await wb.xlsx.load(x.body as Buffer);
+    await wb.xlsx.load(x.body as unknown as ArrayBuffer);
     const probs = wb.getWorksheet('Problems')!;
     expect(probs.getRow(2).getCell(3).value).toBe('E2');
     const grid = wb.worksheets.find((w) => w.name.startsWith('Cases'))!;

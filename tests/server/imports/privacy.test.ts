@@ -88,7 +88,7 @@ describe('privacy of uploads', () => {
     for (const n of NEEDLES) expect(JSON.stringify(problems)).not.toContain(n);
     const x = await c.get(`/api/imports/${bad}/problems.xlsx`).buffer(true).parse((res, cb) => { const b: Buffer[] = []; res.on('data', (d: Buffer) => b.push(d)); res.on('end', () => cb(null, Buffer.concat(b))); });
     const wb = new ExcelJS.Workbook();
-    await wb.xlsx.load(x.body as Buffer);
+    await wb.xlsx.load(x.body as unknown as ArrayBuffer);
     const texts: string[] = [];
     wb.eachSheet((ws) => ws.eachRow((r) => r.eachCell((cell) => { texts.push(String(cell.value ?? ''), String(cell.note ?? '')); })));
     for (const n of NEEDLES) expect(texts.join('\n')).not.toContain(n);

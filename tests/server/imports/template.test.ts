@@ -19,7 +19,7 @@ async function template(): Promise<Buffer> {
 describe('import template', () => {
   it('when downloaded, then it has a sheet per record kind with every import column, notes, drop-downs and the dictionary', async () => {
     const wb = new ExcelJS.Workbook();
-    await wb.xlsx.load(await template());
+    await wb.xlsx.load((await template()) as unknown as ArrayBuffer);
     for (const kind of ['cases', 'therapy', 'outcomes'] as const) {
       const ws = wb.getWorksheet(SHEET_NAMES[kind])!;
       expect(ws, SHEET_NAMES[kind]).toBeDefined();
