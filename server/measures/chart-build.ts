@@ -155,13 +155,18 @@ function buildPhase(m: MeasureDefinition, inputs: PeriodInput[], phaseIndex: num
   }
   const centre = fmt(m, chart.centre * scale);
   // Consecutive points beyond the same limit are read as one finding (one line, not one per month).
-  const merged: { rule: string; start: number; end: number }[] = [];
-  for (const s of chart.signals) {
-    const last = merged[merged.length - 1];
-    const sameSide = last && chart.points[last.end].value > chart.centre === chart.points[s.start].value > chart.centre;
-    if (s.rule === 'outside-3-sigma' && last?.rule === 'outside-3-sigma' && last.end === s.start - 1 && sameSide) last.end = s.end;
-    else merged.push({ ...s });
+  const merged: { rule: string; start: number; end: number }[] = chart.signals.filter((s) => s.rule !== 'outside-3-sigma').map((s) => ({ ...s }));
+  const above = (i: number) => chart.points[i].value > chart.centre;
+  let beyond: { rule: string; start: number; end: number } | null = null;
+  for (const s of chart.signals.filter((x) => x.rule === 'outside-3-sigma')) {
+    if (beyond && beyond.end === s.start - 1 && above(beyond.end) === above(s.start)) beyond.end = s.end;
+    else {
+      if (beyond) merged.push(beyond);
+      beyond = { rule: s.rule, start: s.start, end: s.end };
+    }
   }
+  if (beyond) merged.push(beyond);
+  merged.sort((x, y) => x.start - y.start || x.end - y.end);
   for (const s of merged) {
     const a = present[s.start];
     const b = present[s.end];

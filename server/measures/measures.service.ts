@@ -69,11 +69,12 @@ export async function siteLabel(ds: DataSource, site: string): Promise<string> {
   return `${row.name} (${row.code})`;
 }
 
+/** The notes of a site's charts; the network's charts show the network's notes and every site's (with its code). */
 export async function annotationsFor(ds: DataSource, site: string): Promise<Annotation[]> {
   const rows = await ds.query(
     `SELECT a.id, a.site_id AS "siteId", s.code AS "siteCode", to_char(a.month, 'YYYY-MM') AS month, a.text, u.display_name AS "createdBy", a.created_at AS "createdAt"
        FROM committee_annotations a LEFT JOIN sites s ON s.id = a.site_id LEFT JOIN users u ON u.id = a.created_by
-      WHERE a.removed_at IS NULL AND ${site === 'network' ? 'a.site_id IS NULL' : 'a.site_id = $1'} ORDER BY a.month, a.created_at`,
+      WHERE a.removed_at IS NULL AND ${site === 'network' ? 'TRUE' : 'a.site_id = $1'} ORDER BY a.month, a.created_at`,
     site === 'network' ? [] : [site],
   );
   return rows.map((r: Annotation & { createdAt: Date }) => ({ ...r, createdAt: new Date(r.createdAt).toISOString() }));
@@ -163,12 +164,13 @@ function rareEventAdvice(m: MeasureDefinition, site: string, periods: PeriodInpu
   return `Rare event at this site: ${events} event${events === 1 ? '' : 's'} in ${periods.length} months (fewer than one a month). Monthly limits are wide and most months show zero; read the g-chart (cases between events) or the quarterly view.`;
 }
 
+/** The event flag of each rare-event measure on a fact row `f` (codes of server/analysis/facts.ts). */
 const G_FLAGS: Partial<Record<MeasureKey, string>> = {
-  'any-ppc': 'd.any_ppc',
-  atelectasis: `EXISTS (SELECT 1 FROM outcome_events o WHERE o.case_id = d.case_id AND o.removed_at IS NULL AND o.type = 'atelectasis')`,
-  pneumonia: 'd.pneumonia_nhsn',
-  'pneumonia-per-1000-patient-days': 'd.pneumonia_nhsn',
-  'respiratory-readmission-30d': `(sc.readmitted_30d AND sc.readmission_cause = 'respiratory')`,
+  'any-ppc': '(f.event_types & 247 <> 0)',
+  atelectasis: '(f.event_types & 1 <> 0)',
+  pneumonia: 'f.pneumonia',
+  'pneumonia-per-1000-patient-days': 'f.pneumonia',
+  'respiratory-readmission-30d': `(f.readmitted AND EXISTS (SELECT 1 FROM surgical_cases sc WHERE sc.id = f.case_id AND sc.readmission_cause = 'respiratory'))`,
 };
 
 /**
@@ -182,11 +184,10 @@ export async function measureGChart(ds: DataSource, key: MeasureKey, site: strin
   const label = await siteLabel(ds, site);
   const settings = (await measureSettings(ds)).get(key)!;
   const months = await chartMonths(ds, settings, q, c);
-  const extra = key === 'respiratory-readmission-30d' ? 'AND sc.readmitted_30d IS NOT NULL' : '';
   const rows: { between: number; eventMonth: string | null }[] = await ds.query(
     `WITH c AS (
-       SELECT d.case_id, d.surgery_date, ${flag} AS ev FROM case_derived d JOIN surgical_cases sc ON sc.id = d.case_id
-        WHERE d.counts_in_analysis ${extra} AND d.surgery_date >= $2::date AND d.surgery_date < $3::date AND ($1::uuid IS NULL OR d.site_id = $1::uuid)
+       SELECT f.case_id, f.surgery_date, ${flag} AS ev FROM analysis_case_facts f
+        WHERE f.status IN (2, 3, 4) AND f.month >= $2::date AND f.month < $3::date AND ($1::uuid IS NULL OR f.site_id = $1::uuid)
      ), o AS (
        SELECT ev, surgery_date, sum(ev::int) OVER (ORDER BY surgery_date, case_id ROWS UNBOUNDED PRECEDING) - ev::int AS grp FROM c
      )

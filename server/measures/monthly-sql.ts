@@ -1,8 +1,11 @@
 /**
  * The committee measures' monthly inputs per site, computed by PostgreSQL (GROUP BY site and
- * month) from the registry's derived-measure view `case_derived` (migration Registry), so the
- * rules (counted statuses, any PPC, PNU1 pneumonia, stays, first therapy day) are the registry's.
- * No case row reaches Node: one row per site and month comes back.
+ * month) over the analysis issue's narrow fact table `analysis_case_facts` (one row per case,
+ * kept current by triggers on the registry tables; migration AnalysisCohorts), so the rules
+ * (counted statuses, any PPC, PNU1 pneumonia, stays, patient-days, first therapy day, adherence)
+ * are computed once, in the same place as the cohort pages'. Only the respiratory cause of a
+ * readmission is read from the case row, for readmitted cases alone. No case row reaches Node:
+ * one row per site and month comes back.
  */
 import type { DataSource, EntityManager } from 'typeorm';
 import type { MonthlyInput } from '../../shared/committee/measures.js';
@@ -15,48 +18,41 @@ export type MonthlyInputs = Record<MonthlyInput, number> & {
   losFrequencies: [number, number][];
 };
 
-const INPUT_SQL = `
-WITH c AS (
-  SELECT d.case_id, d.site_id, date_trunc('month', d.surgery_date)::date AS month, d.any_ppc, d.pneumonia_nhsn,
-         d.patient_days, d.length_of_stay_days, d.days_to_first_therapy, d.ariscat_class,
-         sc.readmitted_30d, sc.readmission_cause
-    FROM case_derived d JOIN surgical_cases sc ON sc.id = d.case_id
-   WHERE d.counts_in_analysis AND d.surgery_date >= $1::date AND d.surgery_date < $2::date
-     AND ($3::uuid[] IS NULL OR d.site_id = ANY($3::uuid[]))
-), atel AS (
-  SELECT DISTINCT o.case_id FROM outcome_events o JOIN c ON c.case_id = o.case_id
-   WHERE o.removed_at IS NULL AND o.type = 'atelectasis'
-), adh AS (
-  -- A case's adherence: sessions delivered over prescribed across its episodes, capped at 1.
-  SELECT e.case_id, LEAST(1, sum(e.sessions_delivered)::float8 / sum(e.sessions_prescribed)) AS adherence
-    FROM therapy_episodes e JOIN c ON c.case_id = e.case_id
-   WHERE e.removed_at IS NULL AND e.sessions_prescribed > 0 AND e.sessions_delivered IS NOT NULL
-   GROUP BY e.case_id
-)
-SELECT c.site_id AS "siteId", to_char(c.month, 'YYYY-MM-DD') AS month,
-  count(*)::int AS cases,
-  count(*) FILTER (WHERE c.any_ppc)::int AS "anyPpc",
-  count(atel.case_id)::int AS atelectasis,
-  count(*) FILTER (WHERE c.pneumonia_nhsn)::int AS pneumonia,
-  count(*) FILTER (WHERE c.pneumonia_nhsn AND c.patient_days IS NOT NULL)::int AS "pneumoniaDischarged",
-  count(c.patient_days)::int AS "dischargedCases",
-  coalesce(sum(c.patient_days), 0)::int AS "patientDays",
-  count(c.readmitted_30d)::int AS "followedUp",
-  count(*) FILTER (WHERE c.readmitted_30d AND c.readmission_cause = 'respiratory')::int AS "respiratoryReadmissions",
-  count(*) FILTER (WHERE c.ariscat_class IN ('intermediate', 'high'))::int AS "atRisk",
-  count(*) FILTER (WHERE c.ariscat_class IN ('intermediate', 'high') AND c.days_to_first_therapy <= 1)::int AS "earlyTherapy",
-  count(adh.adherence)::int AS "adherenceCases",
-  coalesce(sum(adh.adherence), 0)::float8 AS "adherenceSum"
-FROM c LEFT JOIN atel ON atel.case_id = c.case_id LEFT JOIN adh ON adh.case_id = c.case_id
-GROUP BY c.site_id, c.month`;
+// Codes of server/analysis/facts.ts (frozen lists): status complete 2, verified 3, locked 4;
+// ARISCAT intermediate 2, high 3; event bit 1 = atelectasis; 247 = the any-PPC composite mask.
+const COUNTED = `f.status IN (2, 3, 4)`;
+const RANGE = `f.month >= $1::date AND f.month < $2::date AND ($3::uuid[] IS NULL OR f.site_id = ANY($3::uuid[]))`;
 
-const LOS_SQL = `
-SELECT d.site_id AS "siteId", to_char(date_trunc('month', d.surgery_date), 'YYYY-MM-DD') AS month,
-       d.length_of_stay_days::int AS los, count(*)::int AS n
-  FROM case_derived d
- WHERE d.counts_in_analysis AND d.length_of_stay_days IS NOT NULL
-   AND d.surgery_date >= $1::date AND d.surgery_date < $2::date
-   AND ($3::uuid[] IS NULL OR d.site_id = ANY($3::uuid[]))
+export const INPUT_SQL = `
+WITH f AS MATERIALIZED (
+  SELECT f.case_id, f.site_id, f.month, f.event_types, f.pneumonia, f.patient_days, f.readmitted, f.ariscat, f.first_therapy_day, f.adherence
+    FROM analysis_case_facts f WHERE ${COUNTED} AND ${RANGE}
+), resp AS (
+  SELECT f.site_id, f.month, count(*)::int AS n FROM f JOIN surgical_cases sc ON sc.id = f.case_id
+   WHERE f.readmitted AND sc.readmission_cause = 'respiratory' GROUP BY 1, 2
+)
+SELECT f.site_id AS "siteId", to_char(f.month, 'YYYY-MM-DD') AS month,
+  count(*)::int AS cases,
+  count(*) FILTER (WHERE f.event_types & 247 <> 0)::int AS "anyPpc",
+  count(*) FILTER (WHERE f.event_types & 1 <> 0)::int AS atelectasis,
+  count(*) FILTER (WHERE f.pneumonia)::int AS pneumonia,
+  count(*) FILTER (WHERE f.pneumonia AND f.patient_days IS NOT NULL)::int AS "pneumoniaDischarged",
+  count(f.patient_days)::int AS "dischargedCases",
+  coalesce(sum(f.patient_days), 0)::int AS "patientDays",
+  count(*)::int AS "followedUp",
+  coalesce(max(resp.n), 0)::int AS "respiratoryReadmissions",
+  count(*) FILTER (WHERE f.ariscat IN (2, 3))::int AS "atRisk",
+  count(*) FILTER (WHERE f.ariscat IN (2, 3) AND f.first_therapy_day <= 1)::int AS "earlyTherapy",
+  count(f.adherence)::int AS "adherenceCases",
+  -- real (float4) summed in float8: the sum must not depend on the order rows arrive in.
+  coalesce(sum(f.adherence::float8), 0)::float8 AS "adherenceSum"
+FROM f LEFT JOIN resp ON resp.site_id = f.site_id AND resp.month = f.month
+GROUP BY f.site_id, f.month`;
+
+export const LOS_SQL = `
+SELECT f.site_id AS "siteId", to_char(f.month, 'YYYY-MM-DD') AS month, f.los::int AS los, count(*)::int AS n
+  FROM analysis_case_facts f
+ WHERE ${COUNTED} AND f.los IS NOT NULL AND f.los >= 0 AND ${RANGE}
  GROUP BY 1, 2, 3 ORDER BY 1, 2, 3`;
 
 /**

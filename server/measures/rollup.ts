@@ -34,14 +34,13 @@ export async function refreshRollup(tx: DataSource | EntityManager, month: strin
  * Monthly inputs per site for months [from, to]: closed months from the roll-up, others live.
  * @param closed the closed months ('YYYY-MM') among them
  */
+/** The roll-up rows of some months ($1 date[]) and sites ($2 uuid[] or null = all). */
+export const ROLLUP_SELECT_SQL = `SELECT site_id AS "siteId", to_char(month, 'YYYY-MM-DD') AS month, ${MONTHLY_INPUTS.map((k) => `${COLUMNS[k]} AS "${k}"`).join(', ')}, los_frequencies AS "losFrequencies"
+  FROM committee_month_rollups WHERE month = ANY($1::date[]) AND ($2::uuid[] IS NULL OR site_id = ANY($2::uuid[]))`;
+
 export async function readMonthly(db: DataSource, from: string, to: string, closed: ReadonlySet<string>, siteIds: readonly string[] | null): Promise<MonthlyInputs[]> {
-  const select = MONTHLY_INPUTS.map((k) => `${COLUMNS[k]} AS "${k}"`).join(', ');
   const frozen: MonthlyInputs[] = closed.size
-    ? await db.query(
-        `SELECT site_id AS "siteId", to_char(month, 'YYYY-MM-DD') AS month, ${select}, los_frequencies AS "losFrequencies"
-           FROM committee_month_rollups WHERE month = ANY($1::date[]) AND ($2::uuid[] IS NULL OR site_id = ANY($2::uuid[]))`,
-        [[...closed].filter((m) => m >= from && m <= to).map(monthStart), siteIds ? [...siteIds] : null],
-      )
+    ? await db.query(ROLLUP_SELECT_SQL, [[...closed].filter((m) => m >= from && m <= to).map(monthStart), siteIds ? [...siteIds] : null])
     : [];
   // Open months, in contiguous stretches, live from the registry.
   const live: MonthlyInputs[] = [];

@@ -88,10 +88,10 @@ export const MEASURES: readonly MeasureDefinition[] = [
   {
     key: 'respiratory-readmission-30d', label: '30-day readmission for a respiratory cause', short: 'Respiratory readmission', kind: 'proportion', unit: '%', better: 'lower',
     numerator: 'Cases readmitted within 30 days of surgery with the cause recorded as respiratory.',
-    denominator: `${COUNTED} Only cases whose 30-day readmission question is answered.`,
-    exclusions: `${EXCLUDED} Cases whose follow-up is not yet recorded.`,
+    denominator: `${COUNTED} A case whose readmission is not recorded counts as not readmitted (as in the analysis pages' 30-day readmission).`,
+    exclusions: EXCLUDED,
     source: 'common practice (no source); 30-day window from the day of surgery (day 0 to day 30)',
-    inputs: { numerator: 'respiratoryReadmissions', denominator: 'followedUp' }, rareEvent: true,
+    inputs: { numerator: 'respiratoryReadmissions', denominator: 'cases' }, rareEvent: true,
   },
   {
     key: 'median-length-of-stay', label: 'Median length of stay', short: 'Median LOS', kind: 'individuals', unit: 'days', better: 'lower',
@@ -111,7 +111,7 @@ export const MEASURES: readonly MeasureDefinition[] = [
   },
   {
     key: 'therapy-adherence', label: 'Therapy adherence (sessions delivered / prescribed, capped at 100%)', short: 'Adherence', kind: 'individuals', unit: '%', better: 'higher',
-    numerator: 'The mean, per month, of each case\'s adherence: its sessions delivered over sessions prescribed across its episodes, capped at 100%.',
+    numerator: 'The mean, per month, of each case\'s adherence: over its episodes with sessions prescribed, the sessions delivered (each episode capped at its prescription, so at most 100%) divided by the sessions prescribed.',
     denominator: 'Cases with at least one episode with sessions prescribed and delivered recorded (the count is shown beside each month).',
     exclusions: `${EXCLUDED} Episodes with no sessions prescribed.`,
     source: 'Individuals (XmR) chart: Provost LP, Murray SK, The Health Care Data Guide, 2011, ch. 7; adherence definition: common practice (no source)',

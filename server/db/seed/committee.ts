@@ -4,9 +4,9 @@
  * months whose cases the demo generator already locked recorded as closed (their inputs frozen
  * into the roll-up), so the newest months stay open for the chair to close.
  */
-import { SITES } from '../db/seed/scenario.js';
-import { demoSeedSteps } from '../db/seed/steps.js';
-import { refreshRollup } from '../measures/rollup.js';
+import { SITES } from './scenario.js';
+import { demoSeedSteps } from './steps.js';
+import { refreshRollup } from '../../measures/rollup.js';
 
 demoSeedSteps.push({
   name: 'committee annotations and closed months',

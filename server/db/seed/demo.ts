@@ -4,7 +4,7 @@ import { DEMO_PASSWORD, DEMO_USERS, NETWORK, SITES, UNITS } from './scenario.js'
 import { demoSeedSteps } from './steps.js';
 // Registers the demo cases step first: later areas' demo data builds on the cases.
 import './cases.js';
-import '../../committee/demo-seed.js';
+import './committee.js';
 import '../../quality/demo-seed.js';
 
 /** Loads the demo scenario into an empty database (sites, units, users, then each area's step). */

@@ -59,7 +59,6 @@ export function ChartsPage() {
     set({ rebase: list.join(',') || null });
   };
   const c = chart.data;
-  const uid = session?.user.id;
   return (
     <div>
       <PageHeader title="Measure charts" subtitle="Run chart and control chart of each measure, for the network or one site. Closed months are final; open months are provisional." actions={c && <Link className="text-sm text-accent underline" to={`/committee/measures/${key}`}>Definition of {c.measure.short}</Link>} />
@@ -119,10 +118,10 @@ export function ChartsPage() {
                 <ul className="mb-3 flex flex-col gap-2 text-sm">
                   {c.annotations.map((a) => (
                     <li key={a.id} className="rounded border border-line p-2">
-                      <p><strong>{periodLabel(a.month)}</strong>: {a.text} <span className="text-xs text-muted">({a.createdBy ?? 'unknown'})</span></p>
+                      <p><strong>{periodLabel(a.month)}</strong>{a.siteCode && site === 'network' ? ` (${a.siteCode})` : ''}: {a.text} <span className="text-xs text-muted">({a.createdBy ?? 'unknown'})</span></p>
                       <div className="mt-1 flex flex-wrap items-center gap-3 no-print">
                         <label className="flex items-center gap-1 text-xs"><input type="checkbox" checked={rebase.includes(a.month)} onChange={() => toggleRebase(a.month)} disabled={view === 'quarterly'} /> Start a new phase here (re-base)</label>
-                        {(a.createdBy && session?.user.roles.includes('admin')) || uid ? <button type="button" className="text-xs text-danger underline" onClick={() => remove.mutate(a.id)}>Remove</button> : null}
+                        {session?.user.roles.includes('admin') ? <button type="button" className="text-xs text-danger underline" onClick={() => remove.mutate(a.id)}>Remove</button> : null}
                       </div>
                     </li>
                   ))}

@@ -5,7 +5,7 @@ import { userHasAccess, useSession } from '../../lib/session.js';
 import { useCloseMonth, useMonth, useMonths, usePublishMonth, useReopenMonth } from './api/months.js';
 import { periodLabel } from './components/format.js';
 
-function MonthPanel({ month, chair }: { month: string; chair: boolean }) {
+function MonthPanel({ month, chair, pin }: { month: string; chair: boolean; pin: () => void }) {
   const detail = useMonth(month);
   const close = useCloseMonth();
   const reopen = useReopenMonth();
@@ -39,12 +39,12 @@ function MonthPanel({ month, chair }: { month: string; chair: boolean }) {
       </div>
       {chair && (
         <div className="mt-3 flex flex-wrap items-end gap-3 border-t border-line pt-3 no-print">
-          {!d.closed && <Button disabled={!d.ended || close.isPending} onClick={() => close.mutate({ month })}>Close {periodLabel(month)}</Button>}
-          {d.closed && <Button onClick={() => publish.mutate({ month })} disabled={publish.isPending}>{d.publishedAt ? 'Publish again (new packet)' : 'Publish the review'}</Button>}
+          {!d.closed && <Button disabled={!d.ended || close.isPending} onClick={() => { pin(); close.mutate({ month }); }}>Close {periodLabel(month)}</Button>}
+          {d.closed && <Button onClick={() => { pin(); publish.mutate({ month }); }} disabled={publish.isPending}>{d.publishedAt ? 'Publish again (new packet)' : 'Publish the review'}</Button>}
           {d.closed && (
             <>
               <Field label="Reason for re-opening" htmlFor="reopen-reason"><input id="reopen-reason" className={`${inputClass} w-80`} value={reason} onChange={(e) => setReason(e.target.value)} /></Field>
-              <Button variant="danger" disabled={reason.trim().length < 5 || reopen.isPending} onClick={() => reopen.mutate({ month, body: { reason } }, { onSuccess: () => setReason('') })}>Re-open</Button>
+              <Button variant="danger" disabled={reason.trim().length < 5 || reopen.isPending} onClick={() => { pin(); reopen.mutate({ month, body: { reason } }, { onSuccess: () => setReason('') }); }}>Re-open</Button>
             </>
           )}
         </div>
@@ -61,7 +61,9 @@ export function MonthClosePage() {
   const { data } = useSession();
   const chair = !!data && userHasAccess(data.user, ['admin', 'committee'], true);
   const [month, setMonth] = useState<string | null>(null);
-  const selected = month ?? months.data?.items.find((m) => !m.closed && m.month < (months.data?.items[0]?.month ?? ''))?.month ?? months.data?.items[0]?.month ?? null;
+  // By default the oldest month that has ended and is still open: months are closed in order.
+  const items = months.data?.items ?? [];
+  const selected = month ?? [...items].reverse().find((m) => !m.closed && m.month < (items[0]?.month ?? ''))?.month ?? items[0]?.month ?? null;
   return (
     <div>
       <PageHeader title="Month close" subtitle="See a month's completeness, close it (its verified cases lock), re-open it with a reason, publish its review." />
@@ -82,7 +84,7 @@ export function MonthClosePage() {
             ))}
           </ul>
         </nav>
-        {selected && <MonthPanel key={selected} month={selected} chair={chair} />}
+        {selected && <MonthPanel key={selected} month={selected} chair={chair} pin={() => setMonth(selected)} />}
       </div>
     </div>
   );

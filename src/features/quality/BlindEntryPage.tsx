@@ -87,7 +87,7 @@ export function BlindEntryPage() {
   const serverFields = submit.error instanceof ApiError ? Object.fromEntries((submit.error.fields ?? []).map((f) => [f.path.replace(/^values\./, ''), f.message])) : {};
   return (
     <div>
-      <PageHeader title="Blind re-abstraction" subtitle={`Sample drawn ${w.sample.createdAt.slice(0, 10)} (seed ${w.sample.seed}) · ${done} of ${w.items.length} cases done`} actions={<Link className="text-sm text-accent hover:underline" to={paths.quality.reabstraction}>All samples</Link>} />
+      <PageHeader title="Blind re-abstraction" subtitle={`Sample drawn ${w.sample.createdAt.slice(0, 10)} (seed ${w.sample.seed}) · ${done} of ${w.items.length} cases done`} actions={<Link className="text-sm text-accent underline" to={paths.quality.reabstraction}>All samples</Link>} />
       <div className="grid gap-4">
         <Notice>Enter each value from the source record (the hospital chart), not from the registry: the first abstraction is not shown and opening the case in the registry during re-abstraction is recorded. When the source does not document a value, say so.</Notice>
         {!current ? (

@@ -102,7 +102,7 @@ export function CapturePage() {
                 <>
                   <DataTable caption="Operations on the theatre list with no registry case" data={r.missing} columns={missingColumns} getRowId={(m) => m.entryId} />
                   {r.missingTotal > r.missing.length && <p className="mt-1 text-xs text-muted">The first {r.missing.length} of {count(r.missingTotal)} are listed; narrow by site or month.</p>}
-                  {canUpload && <p className="mt-2 text-sm"><Link className="text-accent hover:underline" to={paths.cases.create}>Enter a missing case</Link> (find the operation in the theatre system by its date and category).</p>}
+                  {canUpload && <p className="mt-2 text-sm"><Link className="text-accent underline" to={paths.cases.create}>Enter a missing case</Link> (find the operation in the theatre system by its date and category).</p>}
                 </>
               ) : <EmptyState title="Nothing missing">Every listed operation has a registry case.</EmptyState>}
             </Panel>

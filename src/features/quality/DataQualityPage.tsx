@@ -111,8 +111,8 @@ export function DataQualityPage() {
             <p className="text-sm text-muted">Cases with every required field ({r.month})</p>
             <p className="text-3xl font-semibold tabular"><span data-testid="dq-share">{pct(r.share)}</span> <span className="text-base font-normal text-muted">{count(r.complete)} of {count(r.cases)} cases{smallNote(r.cases)}</span></p>
             <p className="mt-2 flex flex-wrap gap-4 text-sm">
-              <Link className="text-accent hover:underline" to={caseListLink(siteId, r.month, 'draft,complete')}>Draft and complete cases of {r.month} in the case list</Link>
-              <Link className="text-accent hover:underline" to={`${paths.worklist}${siteId ? `?siteId=${siteId}` : ''}`}>Missing data in the worklist</Link>
+              <Link className="text-accent underline" to={caseListLink(siteId, r.month, 'draft,complete')}>Draft and complete cases of {r.month} in the case list</Link>
+              <Link className="text-accent underline" to={`${paths.worklist}${siteId ? `?siteId=${siteId}` : ''}`}>Missing data in the worklist</Link>
             </p>
           </Panel>
           <div className="grid gap-4 lg:grid-cols-2">

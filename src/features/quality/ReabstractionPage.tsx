@@ -66,7 +66,7 @@ function DrawForm() {
         <div><Button type="submit" disabled={draw.isPending || !siteIds.length || !reabstractorId || !fields.length}>{draw.isPending ? 'Drawing…' : 'Draw the sample'}</Button></div>
       </form>
       {draw.isSuccess && (
-        <div className="mt-3"><Notice tone="ok">Drew <strong>{draw.data.size}</strong> of {draw.data.poolSize} eligible verified cases with seed <strong data-testid="drawn-seed" className="tabular">{draw.data.seed}</strong>. <Link className="text-accent hover:underline" to={paths.quality.report(draw.data.id)}>Open its report</Link>.</Notice></div>
+        <div className="mt-3"><Notice tone="ok">Drew <strong>{draw.data.size}</strong> of {draw.data.poolSize} eligible verified cases with seed <strong data-testid="drawn-seed" className="tabular">{draw.data.seed}</strong>. <Link className="text-accent underline" to={paths.quality.report(draw.data.id)}>Open its report</Link>.</Notice></div>
       )}
       {draw.error && <div className="mt-3"><Notice tone="danger">{getErrorMessage(draw.error)}{(draw.error as { fields?: { path: string; message: string }[] }).fields?.map((f) => ` ${f.path}: ${f.message}.`)}</Notice></div>}
     </Panel>
@@ -90,7 +90,7 @@ export function ReabstractionPage() {
       cell: ({ row }) => (
         <span className="flex gap-3">
           {row.original.reabstractorId === user?.id && row.original.entered < row.original.size && <Link className="font-semibold text-accent hover:underline" to={paths.quality.entry(row.original.id)}>Re-abstract</Link>}
-          {(isSampler || row.original.entered === row.original.size) && <Link className="text-accent hover:underline" to={paths.quality.report(row.original.id)}>Report</Link>}
+          {(isSampler || row.original.entered === row.original.size) && <Link className="text-accent underline" to={paths.quality.report(row.original.id)}>Report</Link>}
         </span>
       ),
     },

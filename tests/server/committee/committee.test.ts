@@ -235,7 +235,7 @@ describe('month close, review, publish and packet', () => {
       const api = (await chair.get(`/api/measures/${m.key}/chart?site=network&to=${month}`)).body;
       const rows: unknown[][] = [];
       ws!.eachRow((row, i) => { if (i > 3 && i <= 3 + api.points.length) rows.push((row.values as unknown[]).slice(1, 5)); });
-      expect(rows).toEqual(api.points.map((p: { period: string; numerator: number; denominator: number; value: number | null }) => [p.period, p.numerator, p.denominator, p.value ?? undefined]));
+      expect(rows, m.key).toEqual(api.points.map((p: { period: string; numerator: number; denominator: number; value: number | null }) => [p.period, p.numerator, p.denominator, p.value ?? undefined]));
       expect(ws!.getImages().length).toBe(1);
     }
     // LibreOffice (Debian libreoffice-calc-nogui) opens it and writes a PDF without errors.

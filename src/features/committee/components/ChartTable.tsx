@@ -6,7 +6,7 @@ export function ChartTable({ chart, caption }: { chart: ChartResponse; caption?:
   const [num, den] = numeratorLabel(chart);
   const numbers = new Map(chart.signals.map((s) => [s.id, `${s.chart === 'run' ? 'R' : 'C'}${chart.signals.filter((x) => x.chart === s.chart).indexOf(s) + 1}`]));
   return (
-    <div className="max-h-[520px] overflow-auto rounded border border-line">
+    <div className="max-h-[520px] overflow-auto rounded border border-line" tabIndex={0} role="region" aria-label={`Data table: ${chart.measure.short}, ${chart.scope.label}`}>
       <table className="w-full text-xs">
         <caption className="sr-only">{caption ?? `Monthly values of ${chart.measure.label}, ${chart.scope.label}`}</caption>
         <thead className="sticky top-0 bg-panel">

@@ -11,9 +11,15 @@ type Point = ChartResponse['points'][number];
  */
 export function SpcChart({ chart, mode, height = 300 }: { chart: ChartResponse; mode: 'run' | 'control'; height?: number }) {
   const numbers = new Map(chart.signals.filter((s) => s.chart === mode).map((s, i) => [s.id, i + 1]));
-  const data = chart.points.map((p) => ({ ...p, label: periodLabel(p.period), sig: p.signals.filter((s) => numbers.has(s)).map((s) => numbers.get(s)!) }));
+  const starts = new Map(chart.signals.filter((s) => s.chart === mode).map((s) => [s.id, s.startPeriod]));
+  const data = chart.points.map((p) => ({
+    ...p, label: periodLabel(p.period),
+    sig: p.signals.filter((s) => numbers.has(s)).map((s) => numbers.get(s)!),
+    // The number is written once, at the first point of its signal.
+    firstOf: p.signals.filter((s) => starts.get(s) === p.period).map((s) => numbers.get(s)!),
+  }));
   const unit = chart.measure.unit;
-  const Dot = (props: { cx?: number; cy?: number; payload?: Point & { sig: number[] }; index?: number }) => {
+  const Dot = (props: { cx?: number; cy?: number; payload?: Point & { sig: number[]; firstOf: number[] }; index?: number }) => {
     const { cx, cy, payload, index } = props;
     if (cx === undefined || cy === undefined || !payload || payload.value === null) return <g key={`d${index}`} />;
     const fill = payload.provisional ? '#ffffff' : OKABE_ITO.blue;
@@ -22,7 +28,7 @@ export function SpcChart({ chart, mode, height = 300 }: { chart: ChartResponse; 
         {payload.sig.length ? (
           <>
             <path d={`M${cx},${cy - 7} L${cx + 7},${cy} L${cx},${cy + 7} L${cx - 7},${cy} Z`} fill={payload.provisional ? '#ffffff' : OKABE_ITO.vermillion} stroke={OKABE_ITO.vermillion} strokeWidth={2} />
-            <text x={cx} y={cy - 10} textAnchor="middle" fontSize={10} fill="#1f2a2e">{payload.sig.join(',')}</text>
+            {payload.firstOf.length > 0 && <text x={cx} y={cy - 10} textAnchor="middle" fontSize={11} fontWeight={600} fill="#1f2a2e">{payload.firstOf.join(',')}</text>}
           </>
         ) : (
           <circle cx={cx} cy={cy} r={3.5} fill={fill} stroke={OKABE_ITO.blue} strokeWidth={2} />
@@ -45,7 +51,7 @@ export function SpcChart({ chart, mode, height = 300 }: { chart: ChartResponse; 
             <YAxis tick={{ fontSize: 11, fill: '#1f2a2e' }} width={56} label={{ value: unit, angle: -90, position: 'insideLeft', fontSize: 11, fill: '#1f2a2e' }} domain={chart.measure.kind === 'individuals' ? ['auto', 'auto'] : [0, 'auto']} />
             <Tooltip formatter={(v: unknown, name: unknown) => [withUnit(typeof v === 'number' ? v : null, unit), String(name)]} />
             {chart.annotations.map((a) => (
-              <ReferenceLine key={a.id} x={periodLabel(chart.view === 'quarterly' ? `${a.month.slice(0, 4)}-Q${Math.floor((Number(a.month.slice(5)) - 1) / 3) + 1}` : a.month)} stroke={OKABE_ITO.pink} strokeDasharray="2 3" label={{ value: `✎ ${a.text}`, position: 'insideTopLeft', fontSize: 10, fill: '#7a3a63' }} />
+              <ReferenceLine key={a.id} x={periodLabel(chart.view === 'quarterly' ? `${a.month.slice(0, 4)}-Q${Math.floor((Number(a.month.slice(5)) - 1) / 3) + 1}` : a.month)} stroke={OKABE_ITO.pink} strokeDasharray="2 3" label={{ value: `✎ ${a.siteCode && chart.scope.site === 'network' ? `${a.siteCode}: ` : ''}${a.text}`, position: 'insideTopLeft', fontSize: 10, fill: '#7a3a63' }} />
             ))}
             {phaseStarts.map((x) => <ReferenceLine key={x} x={x} stroke={OKABE_ITO.black} strokeWidth={2} label={{ value: 'new phase', position: 'insideBottomRight', fontSize: 10 }} />)}
             {mode === 'control' && <Line type="step" dataKey="upper" name="Upper limit (3 sigma)" stroke={OKABE_ITO.vermillion} strokeDasharray="6 3" dot={false} isAnimationActive={false} />}
