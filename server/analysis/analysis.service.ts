@@ -404,10 +404,16 @@ export async function siteFunnel(ds: DataSource, filter: CohortFilter, opts: Pic
   const total = sumTotals(rows);
   const net = measureCounts(m, total);
   const target = net.denominator > 0 ? net.events / net.denominator : null;
+  // One exact-binomial pass over every size needed (the sites' and the curve's): its cost is O(n) per size.
+  const maxN = Math.max(10, ...rows.map((r) => r.n));
+  const curveSizes = [...new Set(Array.from({ length: 24 }, (_, i) => Math.max(1, Math.round(Math.exp((Math.log(maxN * 1.1) * (i + 1)) / 24)))))];
+  const siteSizes = rows.map((r) => measureCounts(m, r).denominator).filter((n) => n > 0);
+  const allSizes = [...new Set([...curveSizes, ...siteSizes])].sort((x, y) => x - y);
+  const limitsBySize = new Map((target != null ? safe(() => funnelLimits(target, allSizes, { levels: [0.95, 0.998] }), []) : []).map((f) => [f.size, f]));
   const sites = rows.filter((r) => mayShowSite(viewer, String(r.groups.site))).map((r) => {
     const id = String(r.groups.site);
     const c = measureCounts(m, r);
-    const lim = target != null ? safe(() => funnelLimits(target, [c.denominator])[0], null) : null;
+    const lim = limitsBySize.get(c.denominator) ?? null;
     const p = c.events / c.denominator;
     const at = (lv: number) => lim?.limits.find((l) => l.level === lv);
     const l95 = at(0.95); const l998 = at(0.998);
@@ -422,15 +428,10 @@ export async function siteFunnel(ds: DataSource, filter: CohortFilter, opts: Pic
       position: hidden ? null : position,
     };
   }).sort((a, b) => a.label.localeCompare(b.label));
-  const maxN = Math.max(10, ...rows.map((r) => r.n));
-  // 32 log-spaced sizes draw a smooth funnel; the exact binomial costs O(n) per size, so no more.
-  const sizes = [...new Set(Array.from({ length: 32 }, (_, i) => Math.max(1, Math.round(Math.exp((Math.log(maxN * 1.1) * (i + 1)) / 32)))))];
-  const curve = target != null
-    ? safe(() => funnelLimits(target, sizes, { levels: [0.95, 0.998] }), []).map((f) => ({
-        size: f.size,
-        lower95: f.limits[0].lower, upper95: f.limits[0].upper, lower998: f.limits[1].lower, upper998: f.limits[1].upper,
-      }))
-    : [];
+  const curve = curveSizes.flatMap((n) => {
+    const f = limitsBySize.get(n);
+    return f ? [{ size: n, lower95: f.limits[0].lower, upper95: f.limits[0].upper, lower998: f.limits[1].lower, upper998: f.limits[1].upper }] : [];
+  });
   return {
     measure: opts.measure,
     label: m.label,
