@@ -117,7 +117,7 @@ export async function captureReport(ds: DataSource, user: SessionUser, q: Captur
     SELECT t.id, t.site_id, s.code AS site_code, t.d::text AS d, t.cat, to_char(t.d, 'YYYY-MM') AS month, count(*) OVER ()::int AS total
       FROM t JOIN sites s ON s.id = t.site_id
      WHERE NOT EXISTS (SELECT 1 FROM m1 WHERE m1.tid = t.id) AND NOT EXISTS (SELECT 1 FROM m2 WHERE m2.tid = t.id)
-     ORDER BY t.d, s.code, t.cat, t.id LIMIT 200`,
+     ORDER BY t.d DESC, s.code, t.cat, t.id LIMIT 200`,
     args,
   );
   return {

@@ -16,23 +16,23 @@ import { useSession } from '../../lib/session.js';
 import { useCapture } from './api/get-capture.js';
 import { useUploadTheatreList } from './api/upload-theatre-list.js';
 import { DataTable } from './components/data-table.js';
-import { count, pct, smallNote } from './components/format.js';
+import { count, pct } from './components/format.js';
 import { SiteSelect } from './components/site-select.js';
 
 const monthColumns: ColumnDef<CaptureMonth>[] = [
   { header: 'Site', accessorKey: 'siteCode' },
-  { header: 'Month', accessorKey: 'month' },
+  { header: 'Month', cell: ({ row }) => <span className="whitespace-nowrap">{row.original.month}</span> },
   { header: 'On the list', cell: ({ row }) => count(row.original.listed) },
   { header: 'Matched by identifier', cell: ({ row }) => count(row.original.matchedByIdentifier) },
   { header: 'Matched by date and category', cell: ({ row }) => count(row.original.matchedByDate) },
-  { header: 'Missing', cell: ({ row }) => <span className={row.original.missing ? 'font-semibold text-danger' : ''}>{count(row.original.missing)}{smallNote(row.original.missing)}</span> },
+  { header: 'Missing', cell: ({ row }) => <span className={row.original.missing ? 'font-semibold text-danger' : ''}>{count(row.original.missing)}</span> },
   { header: 'Captured', cell: ({ row }) => <span className="font-semibold">{pct(row.original.capture)}</span> },
   { header: 'In the registry, not on the list', cell: ({ row }) => count(row.original.notOnList) },
 ];
 
 const missingColumns: ColumnDef<CaptureReport['missing'][number]>[] = [
   { header: 'Site', accessorKey: 'siteCode' },
-  { header: 'Operation date', accessorKey: 'operationDate' },
+  { header: 'Operation date', cell: ({ row }) => <span className="whitespace-nowrap">{row.original.operationDate}</span> },
   { header: 'Procedure category', cell: ({ row }) => PROCEDURE_CATEGORY_LABELS[row.original.procedureCategory as ProcedureCategory] ?? row.original.procedureCategory },
   { header: 'Month', accessorKey: 'month' },
 ];
@@ -69,7 +69,10 @@ function UploadForm() {
   );
 }
 
+const FIRST = 25;
+
 export function CapturePage() {
+  const [allMissing, setAllMissing] = useState(false);
   const [sp, setSp] = useSearchParams();
   const siteId = sp.get('siteId') ?? undefined;
   const from = sp.get('from') ?? undefined;
@@ -100,7 +103,8 @@ export function CapturePage() {
             <Panel title={`Operations missing from the registry (${count(r.missingTotal)})`}>
               {r.missing.length ? (
                 <>
-                  <DataTable caption="Operations on the theatre list with no registry case" data={r.missing} columns={missingColumns} getRowId={(m) => m.entryId} />
+                  <DataTable caption="Operations on the theatre list with no registry case" data={allMissing ? r.missing : r.missing.slice(0, FIRST)} columns={missingColumns} getRowId={(m) => m.entryId} />
+                  {r.missing.length > FIRST && <Button variant="ghost" className="px-0 text-xs" aria-expanded={allMissing} onClick={() => setAllMissing(!allMissing)}>{allMissing ? `Show the first ${FIRST} only` : `Show all ${r.missing.length} listed`}</Button>}
                   {r.missingTotal > r.missing.length && <p className="mt-1 text-xs text-muted">The first {r.missing.length} of {count(r.missingTotal)} are listed; narrow by site or month.</p>}
                   {canUpload && <p className="mt-2 text-sm"><Link className="text-accent underline" to={paths.cases.create}>Enter a missing case</Link> (find the operation in the theatre system by its date and category).</p>}
                 </>

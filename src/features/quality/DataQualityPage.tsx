@@ -67,7 +67,7 @@ function Trend({ report }: { report: CompletenessReport }) {
               <XAxis dataKey="month" tick={{ fontSize: 12 }} />
               <YAxis domain={[0, 100]} unit="%" tick={{ fontSize: 12 }} />
               <Tooltip formatter={(v) => [`${String(v)}%`, 'complete']} />
-              <Line type="monotone" dataKey="percent" name="complete" stroke="var(--color-chart-1)" strokeWidth={2} dot={{ r: 4 }} connectNulls={false} isAnimationActive={false} />
+              <Line type="linear" dataKey="percent" name="complete" stroke="var(--color-chart-1)" strokeWidth={2} dot={{ r: 4 }} connectNulls={false} isAnimationActive={false} />
             </LineChart>
           </ResponsiveContainer>
           <figcaption className="text-xs text-muted">Share of cases (not withdrawn) with every required field, by month of surgery.</figcaption>
@@ -116,7 +116,10 @@ export function DataQualityPage() {
             </p>
           </Panel>
           <div className="grid gap-4 lg:grid-cols-2">
-            <Panel title="By section"><DataTable caption="Cases complete per section" data={r.sections} columns={sectionColumns} getRowId={(s) => s.section} /></Panel>
+            <Panel title="By section">
+              <DataTable caption="Cases complete per section" data={r.sections} columns={sectionColumns} getRowId={(s) => s.section} />
+              <p className="mt-2 text-xs text-muted">The 30-day follow-up can be done from post-operative day 30 on, so the most recent month is short of follow-up by design.</p>
+            </Panel>
             <Panel title="By field">
               {r.fields.length ? <DataTable caption="Cases missing each required field" data={r.fields} columns={fieldColumns} getRowId={(f) => f.field} /> : <EmptyState title="No field is missing">Every case of the month has every required field.</EmptyState>}
             </Panel>

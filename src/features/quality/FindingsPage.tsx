@@ -33,7 +33,7 @@ function Review({ f }: { f: Finding }) {
 }
 
 const columns: ColumnDef<Finding>[] = [
-  { header: 'Case', cell: ({ row }) => <Link className="font-semibold text-accent hover:underline" to={paths.cases.detail(row.original.caseId)}>{row.original.registryNumber}</Link> },
+  { header: 'Case', cell: ({ row }) => <Link className="whitespace-nowrap font-semibold text-accent hover:underline" to={paths.cases.detail(row.original.caseId)}>{row.original.registryNumber}</Link> },
   { header: 'Site', accessorKey: 'siteCode' },
   { header: 'Kind', cell: ({ row }) => FINDING_KIND_LABELS[row.original.kind] },
   { header: 'What was found', accessorKey: 'message' },
@@ -65,7 +65,7 @@ export function FindingsPage() {
   const kind = (sp.get('kind') ?? undefined) as FindingKind | undefined;
   const status = sp.get('status') ?? 'open';
   const page = Number(sp.get('page') ?? 1) || 1;
-  const q = useFindings({ siteId, kind, status, page, pageSize: 50 });
+  const q = useFindings({ siteId, kind, status, page, pageSize: 25 });
   const user = useSession().data?.user;
   const canRun = !!user?.roles.some((r) => r === 'admin' || r === 'analyst');
   const run = useRunCheck();
@@ -98,6 +98,18 @@ export function FindingsPage() {
             </select>
           </Field>
         </div>
+        {r && (
+          <ul aria-label="Findings by kind" className="flex flex-wrap gap-2 text-sm">
+            {FINDING_KINDS.map((k) => (
+              <li key={k}>
+                <button type="button" aria-pressed={kind === k} onClick={() => set('kind', kind === k ? undefined : k)}
+                  className={`rounded border px-2 py-1 ${kind === k ? 'border-accent bg-accent-soft' : 'border-line bg-panel'}`}>
+                  {FINDING_KIND_LABELS[k]} <span className="font-semibold tabular">{count(r.counts[k] ?? 0)}</span>
+                </button>
+              </li>
+            ))}
+          </ul>
+        )}
         <Panel title={r ? `${count(r.total)} ${status === 'open' ? 'open' : status} finding${r.total === 1 ? '' : 's'}` : 'Findings'}>
           {q.isLoading && <Loading what="the findings" />}
           {q.error && <ErrorState error={q.error} />}
