@@ -24,6 +24,24 @@ import { DefinitionsView } from './components/definitions-view.js';
 import { showValue } from './form-model.js';
 import { storedViews } from './outcome-evaluation.js';
 
+/** Audit entries name case fields, `therapy.<id>`, `outcomes.<id>`, status and the like. */
+function auditFieldLabel(field: string | null): string {
+  if (!field) return '—';
+  if (Object.hasOwn(CASE_FIELDS, field)) return fieldMeta(CASE_FIELDS[field as CaseFieldName])?.label ?? field;
+  if (field.startsWith('therapy.')) return 'therapy episode';
+  if (field.startsWith('outcomes.')) return 'outcome event';
+  return field === 'ariscat' ? 'ARISCAT' : field;
+}
+
+/** A stored audit value in words: codes by their labels, yes/no, long lists folded. */
+function AuditValue({ field, value }: { field: string | null; value: string | null }) {
+  if (value == null) return <>—</>;
+  const meta = field && Object.hasOwn(CASE_FIELDS, field) ? fieldMeta(CASE_FIELDS[field as CaseFieldName]) : undefined;
+  const words = value === 'true' ? 'Yes' : value === 'false' ? 'No' : meta?.valueLabels?.[value] ?? value;
+  if (words.length <= 120) return <>{words}</>;
+  return <details><summary className="cursor-pointer">{words.slice(0, 60)}…</summary><span className="font-mono text-xs">{words}</span></details>;
+}
+
 const SECTIONS: DictionarySection[] = ['patient', 'operation', 'therapy', 'outcomes', 'follow-up', 'registry'];
 
 function display(k: CaseFieldName, v: unknown): string {
@@ -58,7 +76,7 @@ function StatusActions({ c }: { c: Case }) {
           const why = disabledWhy(t);
           return (
             <span key={t.label} className="flex flex-col">
-              <Button className="disabled:opacity-60" variant={t.to === 'withdrawn' ? 'danger' : t.to === 'verified' ? 'primary' : 'secondary'} disabled={!!why || change.isPending} aria-describedby={why ? `why-${t.to}` : undefined}
+              <Button className="self-start disabled:opacity-60" variant={t.to === 'withdrawn' ? 'danger' : t.to === 'verified' ? 'primary' : 'secondary'} disabled={!!why || change.isPending} aria-describedby={why ? `why-${t.to}` : undefined}
                 onClick={() => (t.needsReason ? setAsking(t) : go(t))}>{t.label}</Button>
               {why && <span id={`why-${t.to}`} className="mt-0.5 max-w-56 text-xs text-muted">{t.label} is not available: {why}.</span>}
             </span>
@@ -119,9 +137,9 @@ function AuditTrail({ id }: { id: string }) {
                   <td className="whitespace-nowrap py-1 pr-3 tabular">{new Date(e.at).toLocaleString('en-GB', { dateStyle: 'medium', timeStyle: 'short' })}</td>
                   <td className="pr-3">{e.actorEmail ?? 'system'}</td>
                   <td className="pr-3">{e.action.replace(/-/g, ' ')}</td>
-                  <td className="pr-3">{e.field ? (fieldMeta(CASE_FIELDS[e.field as CaseFieldName] ?? ({} as never))?.label ?? e.field) : '—'}</td>
-                  <td className="max-w-48 break-words pr-3">{e.oldValue ?? '—'}</td>
-                  <td className="max-w-48 break-words pr-3">{e.newValue ?? '—'}</td>
+                  <td className="pr-3">{auditFieldLabel(e.field)}</td>
+                  <td className="max-w-48 break-words pr-3"><AuditValue field={e.field} value={e.oldValue} /></td>
+                  <td className="max-w-48 break-words pr-3"><AuditValue field={e.field} value={e.newValue} /></td>
                   <td className="max-w-48 break-words">{e.reason ?? ''}</td>
                 </tr>
               ))}

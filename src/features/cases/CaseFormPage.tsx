@@ -38,7 +38,7 @@ const normal = (v: unknown) => JSON.stringify(v, (_k, x) => (x === undefined ? n
 
 function Section({ id, title, children, missing }: { id: string; title: string; children: ReactNode; missing?: number }) {
   return (
-    <section id={id} aria-labelledby={`${id}-h`} className="scroll-mt-4 rounded border border-line bg-panel p-4">
+    <section id={id} aria-labelledby={`${id}-h`} className="@container scroll-mt-4 rounded border border-line bg-panel p-4">
       <h2 id={`${id}-h`} className="mb-3 flex flex-wrap items-baseline justify-between gap-2 text-lg font-semibold">
         {title}
         {missing != null && <span className={`text-xs font-normal ${missing ? 'text-ochre' : 'text-ok'}`}>{missing ? `${missing} required item${missing === 1 ? '' : 's'} missing` : '✓ required items entered'}</span>}
@@ -177,9 +177,9 @@ function CaseForm({ existing }: { existing: Case | null }) {
             </Notice>
           )}
           <Section id={SECTION_IDS.patient} title="Patient" missing={sec.patient}>
-            <div className="grid gap-3 sm:grid-cols-2 xl:grid-cols-3">
-              {f('eligible', { hint: site ? <>Inclusion: {site.inclusionCriteria || 'not stated'}. Exclusion: {site.exclusionCriteria || 'not stated'}.</> : 'The site states its inclusion and exclusion criteria.', className: 'sm:col-span-2 xl:col-span-3' })}
-              {values.eligible === false && f('exclusionReason', { className: 'sm:col-span-2 xl:col-span-3' })}
+            <div className="grid gap-3 @md:grid-cols-2 @xl:grid-cols-3">
+              {f('eligible', { hint: site ? <>Inclusion: {site.inclusionCriteria || 'not stated'}. Exclusion: {site.exclusionCriteria || 'not stated'}.</> : 'The site states its inclusion and exclusion criteria.', className: '@md:col-span-2 @xl:col-span-3' })}
+              {values.eligible === false && f('exclusionReason', { className: '@md:col-span-2 @xl:col-span-3' })}
               {f('admissionDate')}
               {f('age')}
               {f('sex', { hint: 'Used for the predicted body weight.' })}
@@ -198,7 +198,7 @@ function CaseForm({ existing }: { existing: Case | null }) {
             </div>
           </Section>
           <Section id={SECTION_IDS.operation} title="Operation" missing={sec.operation}>
-            <div className="grid gap-3 sm:grid-cols-2 xl:grid-cols-3">
+            <div className="grid gap-3 @md:grid-cols-2 @xl:grid-cols-3">
               {existing ? (
                 <p className="text-sm"><span className="font-semibold">Site</span><br />{existing.siteCode}{site ? ` — ${site.name}` : ''}</p>
               ) : (
@@ -212,7 +212,7 @@ function CaseForm({ existing }: { existing: Case | null }) {
               {f('urgency', { hint: 'ARISCAT’s emergency factor comes from urgency alone.' })}
               {f('anaesthesia')}
               {f('durationMinutes', { hint: 'Incision to closure.' })}
-              <div className="sm:col-span-2 xl:col-span-3">
+              <div className="@md:col-span-2 @xl:col-span-3">
                 <TextField control={control} name="localIdentifier" label="Hospital’s own identifier (optional)"
                   hint={<>Only to catch the same case or patient entered twice. The server keeps a keyed hash of it (with the site) and never stores, logs or shows the identifier itself.{existing?.hasLocalIdentifier ? ' A hash is already recorded for this case; typing one replaces it.' : ''}</>} />
               </div>
@@ -227,7 +227,7 @@ function CaseForm({ existing }: { existing: Case | null }) {
             <OutcomesSection control={control} ctx={ctx} onRemoved={(r) => setRemovals((x) => [...x, r])} />
           </Section>
           <Section id={SECTION_IDS['follow-up']} title="Follow-up (30 days)" missing={sec['follow-up']}>
-            <div className="grid gap-3 sm:grid-cols-2 xl:grid-cols-3">
+            <div className="grid gap-3 @md:grid-cols-2 @xl:grid-cols-3">
               {f('dischargeDate')}
               {f('icuDays')}
               {f('ventilatorDays')}
@@ -236,15 +236,18 @@ function CaseForm({ existing }: { existing: Case | null }) {
               {f('died30d')}
               {values.died30d === true && f('deathDate')}
               {f('followUpCompletedOn')}
-              <div className="sm:col-span-2 xl:col-span-3">{f('notes')}</div>
+              <div className="@md:col-span-2 @xl:col-span-3">{f('notes')}</div>
             </div>
           </Section>
         </div>
         <div className="order-first lg:order-none">
-          <div className="lg:sticky lg:top-4"><ComputedPanel live={live} sectionIds={SECTION_IDS} /></div>
+          <div className="lg:sticky lg:top-4"><ComputedPanel live={live} sectionIds={SECTION_IDS} actions={<>
+            <Button type="submit" disabled={saving} aria-describedby="save-state">{saving ? 'Saving…' : existing || base ? 'Save changes' : 'Save case'}</Button>
+            <span id="save-state" className={`text-xs ${dirty ? 'text-ochre' : 'text-ok'}`}>{dirty ? 'Unsaved changes' : savedOnce ? 'Saved' : ''}</span>
+          </>} /></div>
         </div>
       </div>
-      <div className="sticky bottom-0 z-10 mt-4 flex flex-wrap items-center gap-3 border-t border-line bg-surface/95 py-3 no-print">
+      <div className="mt-4 flex flex-wrap items-center gap-3 border-t border-line py-3 no-print">
         <Button type="submit" disabled={saving}>{saving ? 'Saving…' : existing || base ? 'Save changes' : 'Save case'}</Button>
         {dirty ? <span className="text-sm text-ochre">Unsaved changes</span> : savedOnce ? <span className="text-sm text-ok">Saved</span> : null}
         {errorCount > 0 && <span className="text-sm text-danger" role="alert">{errorCount} field{errorCount === 1 ? '' : 's'} need attention: see the messages in red.</span>}

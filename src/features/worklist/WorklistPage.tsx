@@ -15,7 +15,7 @@ import { useSession } from '../../lib/session.js';
 import { useSites } from './api/get-sites.js';
 import { useWorklist } from './api/get-worklist.js';
 
-const fieldLabel = (path: string) => fieldMeta(CASE_FIELDS[path as CaseFieldName] ?? ({} as never))?.label ?? (path.startsWith('therapy') ? 'a therapy episode item' : path.startsWith('outcomes') ? 'an outcome event item' : path);
+const fieldLabel = (path: string) => (Object.hasOwn(CASE_FIELDS, path) ? fieldMeta(CASE_FIELDS[path as CaseFieldName])?.label ?? path : path.startsWith('therapy') ? 'a therapy episode item' : path.startsWith('outcomes') ? 'an outcome event item' : path);
 
 type BucketKey = Exclude<keyof Worklist, 'today'>;
 const BUCKETS: { key: BucketKey; title: string; empty: string; detail: (i: WorklistItem) => string; daysLabel: string }[] = [

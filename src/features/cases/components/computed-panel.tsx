@@ -1,3 +1,4 @@
+import type { ReactNode } from 'react';
 import { ARISCAT_RISK_CLASS_LABELS } from '../../../../shared/clinical/scores.js';
 import { DICTIONARY_SECTION_LABELS } from '../../../../shared/registry/meta.js';
 import type { LiveValues } from '../live-values.js';
@@ -13,11 +14,12 @@ function Row({ label, value }: { label: string; value: string }) {
 }
 
 /** Values computed as the abstractor types (same functions as the server). */
-export function ComputedPanel({ live, sectionIds }: { live: LiveValues; sectionIds: Record<string, string> }) {
+export function ComputedPanel({ live, sectionIds, actions }: { live: LiveValues; sectionIds: Record<string, string>; actions?: ReactNode }) {
   const a = live.ariscat;
   const c = live.completeness;
   return (
     <aside aria-labelledby="computed-title" className="rounded border border-line bg-panel p-3 text-sm">
+      {actions && <div className="no-print mb-3 flex flex-wrap items-center gap-2 border-b border-line pb-3">{actions}</div>}
       <h2 id="computed-title" className="mb-2 text-base font-semibold">Computed as you type</h2>
       <section aria-label="ARISCAT score" className="mb-3" aria-live="polite">
         <h3 className="font-semibold">ARISCAT pre-operative risk</h3>

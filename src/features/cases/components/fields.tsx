@@ -29,13 +29,19 @@ function Frame({ id, label, unit, hint, warning, error, children, className = ''
   );
 }
 
+/**
+ * Messages show once a field was left (touched) or a save was tried: a record just added is
+ * not covered in "required" messages before the abstractor has reached its fields.
+ */
+const shown = (fs: { isTouched: boolean; error?: unknown }, form: { submitCount: number }) => fs.isTouched || form.submitCount > 0 || (fs.error as { type?: string } | undefined)?.type === 'server';
+
 const describedBy = (id: string, hint: unknown, warning: unknown, error: unknown) =>
   [error ? `${id}-error` : hint ? `${id}-hint` : null, warning && !error ? `${id}-warn` : null].filter(Boolean).join(' ') || undefined;
 
 /** A number with its unit; empty is null. Keeps the typed text so "36." can become "36.5". */
 export function NumberField<T extends FieldValues>({ control, name, label, unit, hint, warning, step = 'any', className, placeholder, optional = false }: Common<T> & { unit?: string; step?: string; placeholder?: string; optional?: boolean }) {
   const id = useId();
-  const { field, fieldState } = useController({ control, name });
+  const { field, fieldState, formState } = useController({ control, name });
   const [text, setText] = useState(field.value == null ? '' : String(field.value));
   const last = useRef<unknown>(field.value);
   useEffect(() => {
@@ -45,7 +51,7 @@ export function NumberField<T extends FieldValues>({ control, name, label, unit,
       setText(field.value == null ? '' : String(field.value));
     }
   }, [field.value]);
-  const error = fieldState.error?.message;
+  const error = shown(fieldState, formState) ? fieldState.error?.message : undefined;
   return (
     <Frame id={id} label={label} unit={unit} hint={hint} warning={warning} error={error} className={className}>
       <input
@@ -69,8 +75,8 @@ export function NumberField<T extends FieldValues>({ control, name, label, unit,
 
 export function TextField<T extends FieldValues>({ control, name, label, hint, warning, className, type = 'text', maxLength, multiline, autoComplete = 'off', optional = false }: Common<T> & { type?: string; maxLength?: number; multiline?: boolean; autoComplete?: string; optional?: boolean }) {
   const id = useId();
-  const { field, fieldState } = useController({ control, name });
-  const error = fieldState.error?.message;
+  const { field, fieldState, formState } = useController({ control, name });
+  const error = shown(fieldState, formState) ? fieldState.error?.message : undefined;
   const props = {
     id, ref: field.ref, name: field.name, value: (field.value as string | null | undefined) ?? '', maxLength, autoComplete,
     className: `${inputClass} ${error ? 'border-danger' : ''}`, 'aria-invalid': error ? true : undefined, 'aria-describedby': describedBy(id, hint, warning, error),
@@ -91,8 +97,8 @@ export function DateField<T extends FieldValues>(p: Common<T> & { optional?: boo
 /** A code list as a select; empty is null. */
 export function SelectField<T extends FieldValues>({ control, name, label, hint, warning, className, options, labels, empty = 'Not recorded', unit, onValue, optional = false }: Common<T> & { options: readonly string[]; labels?: Readonly<Record<string, string>>; empty?: string; unit?: string; onValue?: (v: string | null) => void; optional?: boolean }) {
   const id = useId();
-  const { field, fieldState } = useController({ control, name });
-  const error = fieldState.error?.message;
+  const { field, fieldState, formState } = useController({ control, name });
+  const error = shown(fieldState, formState) ? fieldState.error?.message : undefined;
   return (
     <Frame id={id} label={label} unit={unit} hint={hint} warning={warning} error={error} className={className}>
       <select
@@ -111,8 +117,8 @@ export function SelectField<T extends FieldValues>({ control, name, label, hint,
 /** Yes / no / not recorded as a radio group (arrow keys move within it). */
 export function YesNoField<T extends FieldValues>({ control, name, label, hint, warning, className }: Common<T>) {
   const id = useId();
-  const { field, fieldState } = useController({ control, name });
-  const error = fieldState.error?.message;
+  const { field, fieldState, formState } = useController({ control, name });
+  const error = shown(fieldState, formState) ? fieldState.error?.message : undefined;
   const v = field.value as boolean | null | undefined;
   const opt = (value: boolean | null, text: string) => (
     <label className="flex items-center gap-1 text-sm">
@@ -134,7 +140,7 @@ export function YesNoField<T extends FieldValues>({ control, name, label, hint, 
 /** A measurement entered in one of several units (e.g. haemoglobin in g/dL or g/L); empty is null. */
 export function MeasurementField<T extends FieldValues>({ control, name, label, hint, warning, className, units, unitLabels }: Common<T> & { units: readonly string[]; unitLabels: Readonly<Record<string, string>> }) {
   const id = useId();
-  const { field, fieldState } = useController({ control, name });
+  const { field, fieldState, formState } = useController({ control, name });
   const m = field.value as { value: number; unit: string } | null | undefined;
   const [text, setText] = useState(m?.value == null ? '' : String(m.value));
   const [unit, setUnit] = useState(m?.unit ?? units[0]);
@@ -154,7 +160,7 @@ export function MeasurementField<T extends FieldValues>({ control, name, label, 
     field.onChange(next);
   };
   const fe = fieldState.error as unknown as { message?: string; value?: { message?: string }; unit?: { message?: string } } | undefined;
-  const error = fe?.message ?? fe?.value?.message ?? fe?.unit?.message;
+  const error = shown(fieldState, formState) ? fe?.message ?? fe?.value?.message ?? fe?.unit?.message : undefined;
   return (
     <Frame id={id} label={label} hint={hint} warning={warning} error={error} className={className}>
       <div className="flex gap-1">
@@ -172,9 +178,9 @@ export function MeasurementField<T extends FieldValues>({ control, name, label, 
 /** A list of codes as checkboxes (e.g. therapy adverse events); empty list is null. */
 export function CheckListField<T extends FieldValues>({ control, name, label, hint, className, options, labels }: Common<T> & { options: readonly string[]; labels: Readonly<Record<string, string>> }) {
   const id = useId();
-  const { field, fieldState } = useController({ control, name });
+  const { field, fieldState, formState } = useController({ control, name });
   const cur = (field.value as string[] | null | undefined) ?? [];
-  const error = fieldState.error?.message;
+  const error = shown(fieldState, formState) ? fieldState.error?.message : undefined;
   return (
     <fieldset className={`flex min-w-0 flex-col gap-1 ${className ?? ''}`} aria-describedby={error ? `${id}-error` : undefined}>
       <legend className="mb-1 text-sm font-semibold">{label}</legend>
@@ -195,8 +201,8 @@ export function CheckListField<T extends FieldValues>({ control, name, label, hi
 
 /** A plain checkbox for a required yes/no inside an observation (unticked = no). */
 export function CheckboxField<T extends FieldValues>({ control, name, label, className }: Common<T>) {
-  const { field, fieldState } = useController({ control, name });
-  const error = fieldState.error?.message;
+  const { field, fieldState, formState } = useController({ control, name });
+  const error = shown(fieldState, formState) ? fieldState.error?.message : undefined;
   return (
     <div className={`flex min-w-0 flex-col justify-end gap-1 ${className ?? ''}`}>
       <label className="flex items-center gap-2 text-sm">

@@ -68,7 +68,7 @@ function FindingsEditor({ control, name }: { control: Control<CaseFormValues>; n
     <fieldset className="col-span-full rounded border border-line p-2">
       <legend className="px-1 text-sm font-semibold">Findings</legend>
       {fields.map((f, j) => (
-        <div key={f.id} className="mb-2 grid gap-2 sm:grid-cols-[1fr_10rem_auto] sm:items-end">
+        <div key={f.id} className="mb-2 grid gap-2 @md:grid-cols-[1fr_10rem_auto] @md:items-end">
           <SelectField control={control} name={`${name}.${j}.type` as Path<CaseFormValues>} label={`Finding ${j + 1}`} options={types} labels={IMAGING_FINDING_TYPE_LABELS} empty="Choose…" optional />
           <SelectField control={control} name={`${name}.${j}.course` as Path<CaseFormValues>} label="Course" options={courses} labels={IMAGING_COURSE_LABELS} empty="Not stated" optional />
           <Button type="button" variant="ghost" onClick={() => remove(j)} aria-label={`Remove finding ${j + 1}`}>Remove</Button>
@@ -112,17 +112,17 @@ export function ObservationsEditor({ control, eventIndex, surgeryDate }: { contr
       <h4 className="text-sm font-semibold">Evidence: dated observations</h4>
       <p className="text-xs text-muted">Enter what was observed, with its value, unit and date; Alveolog works out which definition criteria are met. A post-operative day can be given instead of a date (day 0 is the day of surgery).</p>
       {fields.length === 0 && <p className="text-sm text-muted">No observations yet.</p>}
-      <ol className="flex flex-col gap-2">
+      <ol className="flex flex-col gap-2" aria-label={`Observations of event ${eventIndex + 1}`}>
         {fields.map((f, j) => {
           const v = values?.[j];
           const pod = podOf(v?.date);
           return (
-            <li key={f.id} className="rounded border border-line bg-surface p-2">
+            <li key={f.id} className="@container rounded border border-line bg-surface p-2">
               <div className="mb-2 flex flex-wrap items-center justify-between gap-2">
                 <p className="text-sm font-semibold">{j + 1}. {v ? OBSERVATION_KIND_LABELS[v.kind] : ''}{pod != null && <span className="ml-2 font-normal text-muted">post-operative day {pod}</span>}</p>
                 <Button type="button" variant="ghost" onClick={() => remove(j)} aria-label={`Remove observation ${j + 1}`}>Remove</Button>
               </div>
-              <div className="grid gap-2 sm:grid-cols-2 lg:grid-cols-4">
+              <div className="grid gap-2 @md:grid-cols-2 @xl:grid-cols-4">
                 <DateField control={control} name={`${name}.${j}.date` as Path<CaseFormValues>} label="Date" optional />
                 <NumberField control={control} name={`${name}.${j}.postoperativeDay` as Path<CaseFormValues>} label="or post-operative day" optional />
                 {v && <ObservationFields control={control} base={`${name}.${j}`} kind={v.kind} />}

@@ -18,20 +18,20 @@ function EventCard({ control, index, ctx, onRemove }: { control: Control<CaseFor
   const { views, invalid } = evaluateEvent(e.type, e.observations ?? [], ctx);
   const f = (k: keyof typeof OUTCOME_FIELDS, hint?: string) => <SchemaField key={k} control={control} name={`${base}.${k}` as Path<CaseFormValues>} schema={OUTCOME_FIELDS[k]} hint={hint} />;
   return (
-    <li className="rounded border border-line bg-panel p-3">
+    <li className="@container rounded border border-line bg-panel p-3">
       <div className="mb-2 flex flex-wrap items-center justify-between gap-2">
         <h3 className="text-base font-semibold">Event {index + 1}</h3>
         <Button type="button" variant="ghost" onClick={() => (e.recordId ? setConfirming(true) : onRemove(null))}>Remove event</Button>
       </div>
       {confirming && <RemoveWithReason what={`event ${index + 1}`} onConfirm={(r) => onRemove(r)} onCancel={() => setConfirming(false)} />}
-      <div className="grid gap-3 sm:grid-cols-2 xl:grid-cols-4">
+      <div className="grid gap-3 @md:grid-cols-2 @2xl:grid-cols-4">
         {f('type')}
         {f('onsetPostoperativeDay', 'Day 0 is the day of surgery; up to day 30.')}
         {f('clavienDindo')}
         {f('clavienDindoDisability')}
-        <div className="sm:col-span-2 xl:col-span-4">{f('notes')}</div>
+        <div className="@md:col-span-2 @2xl:col-span-4">{f('notes')}</div>
       </div>
-      <div className="mt-3 grid gap-3 xl:grid-cols-[3fr_2fr]">
+      <div className="mt-3 grid gap-3 @5xl:grid-cols-[3fr_2fr]">
         <ObservationsEditor control={control} eventIndex={index} surgeryDate={ctx.surgeryDate} />
         <div>
           {e.type ? <DefinitionsView views={views} invalid={invalid} /> : <p className="text-sm text-muted">Choose the complication to see the definitions evaluated.</p>}

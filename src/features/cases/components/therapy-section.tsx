@@ -91,7 +91,7 @@ function EpisodeCard({ control, index, setValue, onRemove, adherence, heightCm, 
   } catch { indication = null; }
   const showField = (f: TherapyEpisodeField) => table?.fields.includes(f);
   return (
-    <li className="rounded border border-line bg-panel p-3">
+    <li className="@container rounded border border-line bg-panel p-3">
       <div className="mb-2 flex flex-wrap items-center justify-between gap-2">
         <h3 className="text-base font-semibold">Episode {index + 1}{table ? `: ${table.label}` : ''}</h3>
         <div className="flex items-center gap-3 text-sm">
@@ -100,7 +100,7 @@ function EpisodeCard({ control, index, setValue, onRemove, adherence, heightCm, 
         </div>
       </div>
       {confirming && <RemoveWithReason what={`episode ${index + 1}`} onConfirm={(r) => onRemove(r)} onCancel={() => setConfirming(false)} />}
-      <div className="grid gap-3 sm:grid-cols-2 xl:grid-cols-3">
+      <div className="grid gap-3 @md:grid-cols-2 @xl:grid-cols-3">
         <SchemaField control={control} name={`${base}.modality` as Path<CaseFormValues>} schema={THERAPY_FIELDS.modality} onValue={changeModality}
           hint="CPAP for obstructive sleep apnoea is a risk factor on the patient, not an episode." />
         {modality && (
@@ -135,11 +135,11 @@ function EpisodeCard({ control, index, setValue, onRemove, adherence, heightCm, 
       )}
       {modality && (
         <>
-          <div className="mt-3 grid gap-3 sm:grid-cols-2">
+          <div className="mt-3 grid gap-3 @md:grid-cols-2">
             {field('tolerance')}
             {field('stopReason')}
-            <div className="sm:col-span-2">{field('adverseEvents')}</div>
-            {e.adverseEvents?.includes('other') && <div className="sm:col-span-2">{field('adverseEventNote')}</div>}
+            <div className="@md:col-span-2">{field('adverseEvents')}</div>
+            {e.adverseEvents?.includes('other') && <div className="@md:col-span-2">{field('adverseEventNote')}</div>}
           </div>
           <details className="mt-2 text-xs text-muted">
             <summary className="cursor-pointer">About {table!.label}: notes and sources</summary>
