@@ -53,39 +53,44 @@ function sectionArray(section: CompletenessSection): string {
   const parts: string[] = [];
   for (const r of ELIGIBLE_CASE_RULES) if (sectionOf(r.field) === section) parts.push(ruleSql(r, 'eligible'));
   for (const r of EXCLUDED_CASE_RULES) if (sectionOf(r.field) === section) parts.push(ruleSql(r, 'excluded'));
-  let sql = `array_remove(ARRAY[${parts.length ? parts.join(',\n      ') : 'NULL'}]::text[], NULL)`;
   if (section === 'therapy') {
-    const active = `FROM therapy_episodes e WHERE e.case_id = c.id AND e.removed_at IS NULL`;
-    sql = `array_remove(ARRAY[${[
-      ...parts,
-      `CASE WHEN c.eligible IS DISTINCT FROM false AND c.therapy_given = true AND NOT EXISTS (SELECT 1 ${active}) THEN 'therapy.episodes' END`,
-      `CASE WHEN c.eligible IS DISTINCT FROM false AND c.therapy_given = false AND EXISTS (SELECT 1 ${active}) THEN 'therapyGiven' END`,
-    ].join(',\n      ')}]::text[], NULL)
-      || COALESCE((SELECT array_agg('therapy.' || e.id || '.' || f.name ORDER BY e.created_at, e.id, f.ord)
-           FROM therapy_episodes e CROSS JOIN LATERAL (VALUES ${EPISODE_REQUIRED_FIELDS.map((f, i) => `(${i}, ${lit(f)}, e.${EPISODE_COLUMN[f]} IS NULL)`).join(', ')}) AS f(ord, name, missing)
-           WHERE e.case_id = c.id AND e.removed_at IS NULL AND f.missing AND c.eligible IS DISTINCT FROM false), '{}')`;
+    parts.push(
+      `CASE WHEN c.eligible IS DISTINCT FROM false AND c.therapy_given = true AND NOT COALESCE(te.any_episode, false) THEN 'therapy.episodes' END`,
+      `CASE WHEN c.eligible IS DISTINCT FROM false AND c.therapy_given = false AND COALESCE(te.any_episode, false) THEN 'therapyGiven' END`,
+    );
   }
-  if (section === 'outcomes') {
-    sql += `
-      || COALESCE((SELECT array_agg('outcomes.' || o.id || '.' || f.name ORDER BY o.created_at, o.id, f.ord)
-           FROM outcome_events o CROSS JOIN LATERAL (VALUES ${EVENT_REQUIRED_FIELDS.map((f, i) => `(${i}, ${lit(f)}, o.${EVENT_COLUMN[f]} IS NULL)`).join(', ')}) AS f(ord, name, missing)
-           WHERE o.case_id = c.id AND o.removed_at IS NULL AND f.missing AND c.eligible IS DISTINCT FROM false), '{}')`;
-  }
+  let sql = `array_remove(ARRAY[${parts.length ? parts.join(',\n      ') : 'NULL'}]::text[], NULL)`;
+  if (section === 'therapy') sql += `\n      || CASE WHEN c.eligible IS DISTINCT FROM false THEN COALESCE(te.missing, '{}') ELSE '{}' END`;
+  if (section === 'outcomes') sql += `\n      || CASE WHEN c.eligible IS DISTINCT FROM false THEN COALESCE(oe.missing, '{}') ELSE '{}' END`;
   return sql;
 }
 
 const col = (s: CompletenessSection) => `missing_${s.replace('-', '_')}`;
 
 /**
- * The body of `CREATE VIEW case_completeness AS ...`. Each section's array is computed once per
- * case in a LATERAL subquery (OFFSET 0 keeps the planner from inlining it, which would compute
- * every array again for `missing` and `complete`).
+ * The body of `CREATE VIEW case_completeness AS ...`. The case's current episodes and events
+ * are read once each (one aggregate per table), and each section's array is computed once per
+ * case in a LATERAL subquery (OFFSET 0 keeps the planner from inlining it into `missing`
+ * and `complete`).
  */
 export function caseCompletenessSelectSql(): string {
   const inner = COMPLETENESS_SECTIONS.map((s) => `    ${sectionArray(s)} AS ${col(s)}`).join(',\n');
   const all = COMPLETENESS_SECTIONS.map((s) => `m.${col(s)}`).join(' || ');
-  return `SELECT c.id AS case_id, c.site_id, c.status, ${COMPLETENESS_SECTIONS.map((s) => `m.${col(s)}`).join(', ')}, a.missing, cardinality(a.missing) = 0 AS complete
+  const values = (fields: readonly string[], alias: string, columns: Record<string, string>) =>
+    `VALUES ${fields.map((f, i) => `(${i}, ${lit(f)}, ${alias}.${columns[f]} IS NULL)`).join(', ')}`;
+  return `SELECT c.id AS case_id, c.site_id, c.status, c.surgery_date, ${COMPLETENESS_SECTIONS.map((s) => `m.${col(s)}`).join(', ')}, a.missing, cardinality(a.missing) = 0 AS complete
 FROM surgical_cases c
+LEFT JOIN LATERAL (
+  SELECT bool_or(true) AS any_episode,
+         array_agg('therapy.' || e.id || '.' || f.name ORDER BY e.created_at, e.id, f.ord) FILTER (WHERE f.missing) AS missing
+    FROM therapy_episodes e CROSS JOIN LATERAL (${values(EPISODE_REQUIRED_FIELDS, 'e', EPISODE_COLUMN)}) AS f(ord, name, missing)
+   WHERE e.case_id = c.id AND e.removed_at IS NULL
+) te ON true
+LEFT JOIN LATERAL (
+  SELECT array_agg('outcomes.' || o.id || '.' || f.name ORDER BY o.created_at, o.id, f.ord) FILTER (WHERE f.missing) AS missing
+    FROM outcome_events o CROSS JOIN LATERAL (${values(EVENT_REQUIRED_FIELDS, 'o', EVENT_COLUMN)}) AS f(ord, name, missing)
+   WHERE o.case_id = c.id AND o.removed_at IS NULL
+) oe ON true
 CROSS JOIN LATERAL (
   SELECT
 ${inner}

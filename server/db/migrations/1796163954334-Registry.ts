@@ -26,6 +26,8 @@ export class Registry1796163954334 implements MigrationInterface {
         await queryRunner.query(`CREATE INDEX "IDX_cases_site_updated" ON "surgical_cases" ("site_id", "updated_at" DESC)`);
         // Registry-number search by prefix (LIKE 'HBR-2025%') under any collation.
         await queryRunner.query(`CREATE INDEX "IDX_cases_registry_number_pattern" ON "surgical_cases" ("registry_number" text_pattern_ops)`);
+        // Worklist: open 30-day follow-ups (few rows, read by surgery date).
+        await queryRunner.query(`CREATE INDEX "IDX_cases_followup_open" ON "surgical_cases" ("site_id", "surgery_date") WHERE "follow_up_completed_on" IS NULL AND "status" IN ('draft', 'complete', 'verified')`);
         // Duplicate and returning-patient checks look up the keyed hash (most cases have none).
         await queryRunner.query(`CREATE INDEX "IDX_cases_identifier_hash" ON "surgical_cases" ("identifier_hash", "surgery_date") WHERE "identifier_hash" IS NOT NULL`);
 
@@ -56,8 +58,19 @@ WHERE e.removed_at IS NULL`);
         await queryRunner.query(`CREATE VIEW analysed_cases AS
 SELECT d.* FROM case_derived d WHERE d.counts_in_analysis`);
         await queryRunner.query(`CREATE VIEW case_completeness AS
-SELECT c.id AS case_id, c.site_id, c.status, m.missing_patient, m.missing_operation, m.missing_therapy, m.missing_outcomes, m.missing_follow_up, a.missing, cardinality(a.missing) = 0 AS complete
+SELECT c.id AS case_id, c.site_id, c.status, c.surgery_date, m.missing_patient, m.missing_operation, m.missing_therapy, m.missing_outcomes, m.missing_follow_up, a.missing, cardinality(a.missing) = 0 AS complete
 FROM surgical_cases c
+LEFT JOIN LATERAL (
+  SELECT bool_or(true) AS any_episode,
+         array_agg('therapy.' || e.id || '.' || f.name ORDER BY e.created_at, e.id, f.ord) FILTER (WHERE f.missing) AS missing
+    FROM therapy_episodes e CROSS JOIN LATERAL (VALUES (0, 'modality', e.modality IS NULL), (1, 'startPostoperativeDay', e.start_postoperative_day IS NULL), (2, 'sessionsPrescribed', e.sessions_prescribed IS NULL), (3, 'sessionsDelivered', e.sessions_delivered IS NULL)) AS f(ord, name, missing)
+   WHERE e.case_id = c.id AND e.removed_at IS NULL
+) te ON true
+LEFT JOIN LATERAL (
+  SELECT array_agg('outcomes.' || o.id || '.' || f.name ORDER BY o.created_at, o.id, f.ord) FILTER (WHERE f.missing) AS missing
+    FROM outcome_events o CROSS JOIN LATERAL (VALUES (0, 'type', o.type IS NULL), (1, 'onsetPostoperativeDay', o.onset_postoperative_day IS NULL), (2, 'clavienDindo', o.clavien_dindo IS NULL)) AS f(ord, name, missing)
+   WHERE o.case_id = c.id AND o.removed_at IS NULL
+) oe ON true
 CROSS JOIN LATERAL (
   SELECT
     array_remove(ARRAY[CASE WHEN c.eligible IS DISTINCT FROM false AND c.eligible IS NULL THEN 'eligible' END,
@@ -87,15 +100,11 @@ CROSS JOIN LATERAL (
       CASE WHEN c.eligible IS DISTINCT FROM false AND c.duration_minutes IS NULL THEN 'durationMinutes' END,
       CASE WHEN c.eligible = false AND c.surgery_date IS NULL THEN 'surgeryDate' END]::text[], NULL) AS missing_operation,
     array_remove(ARRAY[CASE WHEN c.eligible IS DISTINCT FROM false AND c.therapy_given IS NULL THEN 'therapyGiven' END,
-      CASE WHEN c.eligible IS DISTINCT FROM false AND c.therapy_given = true AND NOT EXISTS (SELECT 1 FROM therapy_episodes e WHERE e.case_id = c.id AND e.removed_at IS NULL) THEN 'therapy.episodes' END,
-      CASE WHEN c.eligible IS DISTINCT FROM false AND c.therapy_given = false AND EXISTS (SELECT 1 FROM therapy_episodes e WHERE e.case_id = c.id AND e.removed_at IS NULL) THEN 'therapyGiven' END]::text[], NULL)
-      || COALESCE((SELECT array_agg('therapy.' || e.id || '.' || f.name ORDER BY e.created_at, e.id, f.ord)
-           FROM therapy_episodes e CROSS JOIN LATERAL (VALUES (0, 'modality', e.modality IS NULL), (1, 'startPostoperativeDay', e.start_postoperative_day IS NULL), (2, 'sessionsPrescribed', e.sessions_prescribed IS NULL), (3, 'sessionsDelivered', e.sessions_delivered IS NULL)) AS f(ord, name, missing)
-           WHERE e.case_id = c.id AND e.removed_at IS NULL AND f.missing AND c.eligible IS DISTINCT FROM false), '{}') AS missing_therapy,
+      CASE WHEN c.eligible IS DISTINCT FROM false AND c.therapy_given = true AND NOT COALESCE(te.any_episode, false) THEN 'therapy.episodes' END,
+      CASE WHEN c.eligible IS DISTINCT FROM false AND c.therapy_given = false AND COALESCE(te.any_episode, false) THEN 'therapyGiven' END]::text[], NULL)
+      || CASE WHEN c.eligible IS DISTINCT FROM false THEN COALESCE(te.missing, '{}') ELSE '{}' END AS missing_therapy,
     array_remove(ARRAY[CASE WHEN c.eligible IS DISTINCT FROM false AND c.complications_reviewed IS DISTINCT FROM true THEN 'complicationsReviewed' END]::text[], NULL)
-      || COALESCE((SELECT array_agg('outcomes.' || o.id || '.' || f.name ORDER BY o.created_at, o.id, f.ord)
-           FROM outcome_events o CROSS JOIN LATERAL (VALUES (0, 'type', o.type IS NULL), (1, 'onsetPostoperativeDay', o.onset_postoperative_day IS NULL), (2, 'clavienDindo', o.clavien_dindo IS NULL)) AS f(ord, name, missing)
-           WHERE o.case_id = c.id AND o.removed_at IS NULL AND f.missing AND c.eligible IS DISTINCT FROM false), '{}') AS missing_outcomes,
+      || CASE WHEN c.eligible IS DISTINCT FROM false THEN COALESCE(oe.missing, '{}') ELSE '{}' END AS missing_outcomes,
     array_remove(ARRAY[CASE WHEN c.eligible IS DISTINCT FROM false AND c.discharge_date IS NULL THEN 'dischargeDate' END,
       CASE WHEN c.eligible IS DISTINCT FROM false AND c.icu_days IS NULL THEN 'icuDays' END,
       CASE WHEN c.eligible IS DISTINCT FROM false AND c.ventilator_days IS NULL THEN 'ventilatorDays' END,
@@ -114,7 +123,7 @@ CROSS JOIN LATERAL (SELECT m.missing_patient || m.missing_operation || m.missing
         await queryRunner.query(`DROP VIEW "analysed_cases"`);
         await queryRunner.query(`DROP VIEW "therapy_episode_derived"`);
         await queryRunner.query(`DROP VIEW "case_derived"`);
-        for (const i of ['IDX_cases_site_surgery', 'IDX_cases_surgery', 'IDX_cases_site_status_surgery', 'IDX_cases_site_category_surgery', 'IDX_cases_site_class_surgery', 'IDX_cases_site_updated', 'IDX_cases_registry_number_pattern', 'IDX_cases_identifier_hash']) {
+        for (const i of ['IDX_cases_site_surgery', 'IDX_cases_surgery', 'IDX_cases_site_status_surgery', 'IDX_cases_site_category_surgery', 'IDX_cases_site_class_surgery', 'IDX_cases_site_updated', 'IDX_cases_registry_number_pattern', 'IDX_cases_identifier_hash', 'IDX_cases_followup_open']) {
             await queryRunner.query(`DROP INDEX "public"."${i}"`);
         }
         await queryRunner.query(`ALTER TABLE "outcome_events" DROP CONSTRAINT "FK_f6f4ced3b5f735c4f77b0809b81"`);

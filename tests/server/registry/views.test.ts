@@ -50,8 +50,8 @@ describe('views match the derived-measure rules', () => {
     const cases: Record<string, any>[] = await t.ds.query(`SELECT * FROM surgical_cases`);
     const episodes: Record<string, any>[] = await t.ds.query(`SELECT * FROM therapy_episodes WHERE removed_at IS NULL ORDER BY created_at, id`);
     const events: Record<string, any>[] = await t.ds.query(`SELECT * FROM outcome_events WHERE removed_at IS NULL ORDER BY created_at, id`);
-    const derived = new Map((await t.ds.query(`SELECT *, surgery_date::text AS sd, follow_up_window_end::text AS fwe FROM case_derived`)).map((r: any) => [r.case_id, r]));
-    const completeness = new Map((await t.ds.query(`SELECT * FROM case_completeness`)).map((r: any) => [r.case_id, r]));
+    const derived = new Map<string, any>((await t.ds.query(`SELECT *, surgery_date::text AS sd, follow_up_window_end::text AS fwe FROM case_derived`)).map((r: any) => [r.case_id, r]));
+    const completeness = new Map<string, any>((await t.ds.query(`SELECT * FROM case_completeness`)).map((r: any) => [r.case_id, r]));
     const group = <T extends { case_id: string }>(rows: T[]) => rows.reduce((m, r) => m.set(r.case_id, [...(m.get(r.case_id) ?? []), r]), new Map<string, T[]>());
     const eps = group(episodes as any);
     const evs = group(events as any);

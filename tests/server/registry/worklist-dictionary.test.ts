@@ -69,15 +69,15 @@ describe('data dictionary', () => {
     const csv = await c.get('/api/dictionary?format=csv').buffer(true).parse((res, cb) => { let s = ''; res.setEncoding('utf8'); res.on('data', (d: string) => (s += d)); res.on('end', () => cb(null, s)); });
     expect(csv.status).toBe(200);
     expect(csv.headers['content-type']).toMatch(/text\/csv/);
-    const rows = parseCsv(csv.body as unknown as string, { columns: true, bom: true });
+    const rows = parseCsv(csv.body as unknown as string, { columns: true, bom: true }) as Record<string, string>[];
     expect(rows).toHaveLength(json.items.length);
     expect(Object.keys(rows[0])).toEqual(json.columns);
-    expect(rows.find((x: any) => x.variable === 'age').unit).toBe('years');
+    expect(rows.find((x) => x.variable === 'age')!.unit).toBe('years');
 
     const xlsx = await c.get('/api/dictionary?format=xlsx').buffer(true).parse((res, cb) => { const parts: Buffer[] = []; res.on('data', (d: Buffer) => parts.push(d)); res.on('end', () => cb(null, Buffer.concat(parts))); });
     expect(xlsx.status).toBe(200);
     const wb = new ExcelJS.Workbook();
-    await wb.xlsx.load(xlsx.body as Buffer);
+    await wb.xlsx.load(xlsx.body as unknown as ArrayBuffer);
     const ws = wb.getWorksheet('Data dictionary')!;
     expect(ws.rowCount).toBe(json.items.length + 1);
     expect((ws.getRow(1).values as unknown[]).slice(1)).toEqual(json.columns);
