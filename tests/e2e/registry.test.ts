@@ -174,6 +174,49 @@ describe('a case entered, scored, saved and verified in the browser', () => {
     }
   });
 
+  it('when two abstractors change the same case, then the second save shows both versions and keeps the choice made', async () => {
+    expect(caseUrl).toMatch(/\/cases\//);
+    const id = caseUrl.split('/cases/')[1];
+    const page = await b.newPage({ width: 1280 });
+    try {
+      await signIn(page, b.baseUrl, 'abstractor');
+      await page.goto(`${b.baseUrl}/cases/${id}/edit`);
+      await page.getByRole('heading', { level: 1, name: /^Edit case HBR-/ }).waitFor();
+      await text(page.locator('#sec-patient'), 'Weight (kg)', '84');
+      // Leaving with unsaved changes asks first.
+      await page.getByRole('navigation', { name: 'Main' }).getByRole('link', { name: 'Cases', exact: true }).click();
+      const dialog = page.getByRole('alertdialog', { name: 'Leave without saving?' });
+      await dialog.waitFor();
+      await expectAccessible(page, 'unsaved-change dialog');
+      await dialog.getByRole('button', { name: 'Stay and keep editing' }).click();
+      await expect(page.getByLabel('Weight (kg)').inputValue()).resolves.toBe('84');
+
+      // Meanwhile the second abstractor saves other values through the API.
+      const other = await b.t.as('abstractor2');
+      const current = (await other.get(`/api/cases/${id}`)).body as { version: number };
+      const r = await other.patch(`/api/cases/${id}`, { version: current.version, weightKg: 80, icuDays: 1 });
+      expect(r.status).toBe(200);
+
+      await page.getByRole('button', { name: 'Save changes' }).first().click();
+      const panel = page.getByRole('alertdialog', { name: 'Someone else saved this case while you were editing' });
+      await panel.waitFor();
+      const row = panel.getByRole('row').filter({ hasText: 'Weight' });
+      await expect(row.getByRole('cell').nth(0).innerText()).resolves.toBe('84');
+      await expect(row.getByRole('cell').nth(1).innerText()).resolves.toBe('80');
+      await expectAccessible(page, 'conflict panel');
+      await screenshot(page, 'registry-conflict-1280');
+      await panel.getByRole('button', { name: 'Apply my choices to the saved version' }).click();
+      await page.getByRole('button', { name: 'Save changes' }).first().click();
+      await page.getByRole('heading', { level: 1, name: /^Case HBR-/ }).waitFor();
+      // Mine kept for the field both changed; theirs taken for the field only they changed.
+      const panel2 = (title: string) => page.locator('section').filter({ has: page.getByRole('heading', { name: title, exact: true }) });
+      await expect(panel2('Patient').getByText('84 kg').count()).resolves.toBe(1);
+      await expect(panel2('Follow-up').getByText('1 days').count()).resolves.toBe(1);
+    } finally {
+      await page.context().close();
+    }
+  });
+
   it('when a researcher signs in, then the Registry group offers the data dictionary only, with its downloads', async () => {
     const page = await b.newPage();
     try {

@@ -128,7 +128,7 @@ function AuditTrail({ id }: { id: string }) {
       {audit.error && <ErrorState error={audit.error} retry={() => audit.refetch()} />}
       {audit.data && (
         <div className="overflow-x-auto" tabIndex={0} role="region" aria-label="Audit trail table (scrolls sideways)">
-          <table className="w-full text-left text-sm">
+          <table className="w-full min-w-[46rem] text-left text-sm">
             <caption className="sr-only">Every change to this case: who, when, field, old value, new value</caption>
             <thead className="border-b border-line text-muted"><tr><th scope="col" className="py-1 pr-3">When</th><th scope="col" className="pr-3">Who</th><th scope="col" className="pr-3">What</th><th scope="col" className="pr-3">Field</th><th scope="col" className="pr-3">Old</th><th scope="col" className="pr-3">New</th><th scope="col">Reason</th></tr></thead>
             <tbody>
@@ -136,7 +136,7 @@ function AuditTrail({ id }: { id: string }) {
                 <tr key={e.id} className="border-b border-line/60 align-top">
                   <td className="whitespace-nowrap py-1 pr-3 tabular">{new Date(e.at).toLocaleString('en-GB', { dateStyle: 'medium', timeStyle: 'short' })}</td>
                   <td className="pr-3">{e.actorEmail ?? 'system'}</td>
-                  <td className="pr-3">{e.action.replace(/-/g, ' ')}</td>
+                  <td className="whitespace-nowrap pr-3">{e.action.replace(/-/g, ' ')}</td>
                   <td className="pr-3">{auditFieldLabel(e.field)}</td>
                   <td className="max-w-48 break-words pr-3"><AuditValue field={e.field} value={e.oldValue} /></td>
                   <td className="max-w-48 break-words pr-3"><AuditValue field={e.field} value={e.newValue} /></td>
@@ -236,7 +236,7 @@ export function CaseDetailPage() {
               );
             })}
           </div>
-          <div className="flex flex-col gap-4"><Facts c={c} /></div>
+          <div className="order-first flex flex-col gap-4 lg:order-none"><Facts c={c} /></div>
         </div>
         <AuditTrail id={c.id} />
       </div>

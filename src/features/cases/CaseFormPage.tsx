@@ -154,7 +154,8 @@ function CaseForm({ existing }: { existing: Case | null }) {
   const site = (sites.data?.items ?? []).find((s) => s.id === values.siteId);
   const incisionHint = values.incisionSite ? `ARISCAT class: ${ARISCAT_INCISION_LABELS[INCISION_SITE_TO_ARISCAT[values.incisionSite]]}.` : 'Each incision site maps to one ARISCAT class.';
   const sec = live.completeness.sections;
-  const errorCount = Object.keys(form.formState.errors).length;
+  // Counted after a save was tried (before that, messages appear field by field as they are left).
+  const errorCount = form.formState.submitCount > 0 ? Object.keys(form.formState.errors).length : 0;
   const ctx = { surgeryDate: values.surgeryDate || null, admissionDate: values.admissionDate, age: values.age, copd: values.copd, heartFailure: values.heartFailure };
 
   if (readOnly) return <Notice tone="warn">This case is {status}: it cannot be edited. {status === 'withdrawn' ? 'An administrator can reinstate it.' : ''}</Notice>;
