@@ -200,7 +200,7 @@ describe('a case entered, scored, saved and verified in the browser', () => {
       await page.getByRole('button', { name: 'Save changes' }).first().click();
       const panel = page.getByRole('alertdialog', { name: 'Someone else saved this case while you were editing' });
       await panel.waitFor();
-      const row = panel.getByRole('row').filter({ hasText: 'Weight' });
+      const row = panel.getByRole('row').filter({ hasText: 'Weight (kg)' });
       await expect(row.getByRole('cell').nth(0).innerText()).resolves.toBe('84');
       await expect(row.getByRole('cell').nth(1).innerText()).resolves.toBe('80');
       await expectAccessible(page, 'conflict panel');

@@ -179,7 +179,7 @@ function CaseForm({ existing }: { existing: Case | null }) {
           )}
           <Section id={SECTION_IDS.patient} title="Patient" missing={sec.patient}>
             <div className="grid gap-3 @md:grid-cols-2 @xl:grid-cols-3">
-              {f('eligible', { hint: site ? <>Inclusion: {site.inclusionCriteria || 'not stated'}. Exclusion: {site.exclusionCriteria || 'not stated'}.</> : 'The site states its inclusion and exclusion criteria.', className: '@md:col-span-2 @xl:col-span-3' })}
+              {f('eligible', { hint: site ? <>Inclusion: {(site.inclusionCriteria || 'not stated').replace(/\.$/, '')}. Exclusion: {(site.exclusionCriteria || 'not stated').replace(/\.$/, '')}.</> : 'The site states its inclusion and exclusion criteria.', className: '@md:col-span-2 @xl:col-span-3' })}
               {values.eligible === false && f('exclusionReason', { className: '@md:col-span-2 @xl:col-span-3' })}
               {f('admissionDate')}
               {f('age')}

@@ -127,7 +127,9 @@ export function findConflicts(mine: CaseFormValues, base: CaseFormValues, theirs
   const out: FieldConflict[] = [];
   for (const k of CASE_FIELD_NAMES) {
     if (!same(mine[k], base[k]) && !same(theirs[k], base[k]) && !same(mine[k], theirs[k])) {
-      out.push({ path: k, label: (CASE_FIELDS[k].meta() as { label?: string } | undefined)?.label ?? k, mine: mine[k], theirs: theirs[k] });
+      const meta = CASE_FIELDS[k].meta() as { label?: string; unit?: string } | undefined;
+      const unit = meta?.unit && !meta.unit.startsWith('date') ? ` (${meta.unit})` : '';
+      out.push({ path: k, label: `${meta?.label ?? k}${unit}`, mine: mine[k], theirs: theirs[k] });
     }
   }
   const records = (list: 'therapy' | 'outcomes', names: readonly string[]) => {

@@ -1,4 +1,4 @@
-import { useState } from 'react';
+import { useEffect, useRef, useState } from 'react';
 import { Button, Notice } from '../../../components/ui.js';
 import { showValue, type FieldConflict } from '../form-model.js';
 
@@ -8,9 +8,12 @@ import { showValue, type FieldConflict } from '../form-model.js';
  */
 export function ConflictPanel({ conflicts, theirsBy, onApply, onCancel }: { conflicts: FieldConflict[]; theirsBy: string; onApply: (takeTheirs: Set<string>) => void; onCancel: () => void }) {
   const [theirs, setTheirs] = useState<Set<string>>(new Set());
+  const ref = useRef<HTMLElement>(null);
+  // The save button may be far below: bring the choice into view and give it focus.
+  useEffect(() => { ref.current?.scrollIntoView({ block: 'start' }); ref.current?.focus(); }, []);
   const pickTheirs = (path: string, yes: boolean) => setTheirs((s) => { const n = new Set(s); if (yes) n.add(path); else n.delete(path); return n; });
   return (
-    <section role="alertdialog" aria-labelledby="conflict-title" aria-describedby="conflict-text" className="rounded border-2 border-ochre bg-panel p-3">
+    <section ref={ref} tabIndex={-1} role="alertdialog" aria-labelledby="conflict-title" aria-describedby="conflict-text" className="rounded border-2 border-ochre bg-panel p-3">
       <h2 id="conflict-title" className="text-base font-semibold">Someone else saved this case while you were editing</h2>
       <p id="conflict-text" className="mt-1 text-sm">{theirsBy} Nothing of yours was saved or lost. Fields only they changed are taken from their version; fields only you changed keep your value.</p>
       {conflicts.length === 0 ? (
