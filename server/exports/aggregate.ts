@@ -41,7 +41,7 @@ export async function buildAggregate(ds: DataSource, cohort: CohortFilter, rowsB
   const ck = new Set<string>();
   const str = (c: Cell) => (c === null ? MISSING : String(c));
   for (const r of rows) {
-    const [, a, b] = label(r);
+    const [, a, b] = label(vars.map((_, i) => r[`v${i}`]));
     const key = `${str(a)}\u0000${colsBy ? str(b) : ''}`;
     cells.set(key, (cells.get(key) ?? 0) + Number(r.n));
     rk.add(str(a));

@@ -14,3 +14,8 @@ export function cohortFrom(filter: CohortFilter, params: SqlParams): { from: str
     where: factConditions(filter, 'f', { params }),
   };
 }
+
+/** The cohort's case ids as a subquery (for restricting per-case aggregates). */
+export function cohortCaseIds(filter: CohortFilter, params: SqlParams, alias = 'f2'): string {
+  return `SELECT ${alias}.case_id FROM analysis_case_facts ${alias} WHERE ${factConditions(filter, alias, { params }).join(' AND ')}`;
+}

@@ -19,8 +19,8 @@ export interface TransformContext {
   nextStudyId: () => string;
 }
 
-/** Builds the per-row function for an ordered list of variables (query columns v0..vN). */
-export function rowTransformer(variables: readonly ExportVariable[], t: TransformContext): (raw: Record<string, unknown>) => Cell[] {
+/** Builds the per-row function for an ordered list of variables (query columns v0..vN, as an array row). */
+export function rowTransformer(variables: readonly ExportVariable[], t: TransformContext): (raw: readonly unknown[]) => Cell[] {
   const band = t.coarsen ? AGE_BAND_YEARS.coarse : AGE_BAND_YEARS.normal;
   const fns = variables.map((v): ((x: unknown) => Cell) => {
     const s = v.source;
@@ -43,9 +43,11 @@ export function rowTransformer(variables: readonly ExportVariable[], t: Transfor
       return neutraliseFormula(String(x));
     };
   });
+  const n = fns.length;
   return (raw) => {
-    const out: Cell[] = [t.nextStudyId()];
-    for (let i = 0; i < fns.length; i++) out.push(fns[i](raw[`v${i}`]));
+    const out: Cell[] = new Array(n + 1);
+    out[0] = t.nextStudyId();
+    for (let i = 0; i < n; i++) out[i + 1] = fns[i](raw[i]);
     return out;
   };
 }
