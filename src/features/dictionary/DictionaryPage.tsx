@@ -39,23 +39,21 @@ export function DictionaryPage() {
         <>
           <p className="mb-2 text-sm text-muted" aria-live="polite">{rows.length} of {d.data.items.length} variables. Free-text fields: {d.data.freeTextReminder}</p>
           <div className="overflow-x-auto rounded border border-line bg-panel" tabIndex={0} role="region" aria-label="Dictionary table (scrolls sideways)">
-            <table className="w-full text-left text-sm">
+            <table className="w-full min-w-[60rem] text-left text-sm">
               <caption className="sr-only">Registry variables</caption>
               <thead className="border-b border-line bg-surface text-muted">
-                <tr>{['Variable', 'Label', 'Record', 'Type', 'Unit', 'Allowed values or range', 'Required', 'Definition', 'Source'].map((h) => <th key={h} scope="col" className="whitespace-nowrap px-2 py-2">{h}</th>)}</tr>
+                <tr>{['Variable', 'Label', 'Type and unit', 'Allowed values or range', 'Required', 'Definition', 'Source'].map((h) => <th key={h} scope="col" className="whitespace-nowrap px-2 py-2">{h}</th>)}</tr>
               </thead>
               <tbody>
                 {rows.map((e) => (
                   <tr key={e.variable} className="border-b border-line/60 align-top">
-                    <td className="px-2 py-1 font-mono text-xs">{e.variable}</td>
+                    <td className="min-w-44 px-2 py-1"><span className="font-mono text-xs [overflow-wrap:anywhere]">{e.variable}</span><span className="block text-xs text-muted">{e.record}</span></td>
                     <td className="px-2 py-1 font-semibold">{e.label}{e.freeText && <span className="block text-xs font-normal text-ochre">free text: no identifiers</span>}</td>
-                    <td className="px-2 py-1">{e.record}</td>
-                    <td className="px-2 py-1">{e.type}</td>
-                    <td className="px-2 py-1">{e.unit || '—'}</td>
+                    <td className="px-2 py-1">{e.type}{e.unit && !e.unit.startsWith('date') && <span className="block text-xs text-muted">{e.unit}</span>}</td>
                     <td className="max-w-72 px-2 py-1 text-xs">{[e.allowedValues, e.range].filter(Boolean).join('; ') || '—'}</td>
                     <td className="px-2 py-1">{REQUIRED_LABELS[e.required]}{e.requirementNote && <span className="block text-xs text-muted">{e.requirementNote.replace(d.data!.freeTextReminder, '').trim()}</span>}</td>
-                    <td className="max-w-80 px-2 py-1 text-xs">{e.definition}</td>
-                    <td className="max-w-60 px-2 py-1 text-xs text-muted">{e.source || '—'}</td>
+                    <td className="min-w-60 max-w-96 px-2 py-1 text-xs">{e.definition}</td>
+                    <td className="min-w-40 max-w-60 px-2 py-1 text-xs text-muted">{e.source || '—'}</td>
                   </tr>
                 ))}
               </tbody>
