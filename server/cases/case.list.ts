@@ -1,12 +1,12 @@
 /**
  * GET /api/cases: one SQL query with server-side filters, sort and page, scoped to the user's
- * sites. Without filters and above 10,000 rows, the total is the planner's estimate (exact
- * counts of a million rows are slow and the table footer only needs the order of magnitude).
+ * sites. Above 10,000 rows the total is the planner's estimate, flagged so the table says
+ * "about" (exact counts of a million rows are slow and the footer needs only the magnitude).
  */
 import type { DataSource } from 'typeorm';
 import type { SessionUser } from '../../shared/auth/user.js';
 import { parseSort } from '../../shared/api/pagination.js';
-import { caseListIsFiltered, type CaseListItem, type CaseListPage, type CaseListQuery } from '../../shared/registry/list.js';
+import { type CaseListItem, type CaseListPage, type CaseListQuery } from '../../shared/registry/list.js';
 import { ANY_PPC_COMPONENTS } from '../../shared/registry/derived.js';
 import { caseSiteScope } from '../http/scope.js';
 
@@ -61,6 +61,17 @@ async function plannerEstimate(ds: DataSource, where: { sql: string; params: unk
   return Math.round(plan['Plan Rows']);
 }
 
+/**
+ * The list's total: the planner's estimate when it is above ESTIMATE_ABOVE rows (shown as
+ * "about"), else an exact count — counting a million rows exactly costs more than the page.
+ */
+async function listTotal(ds: DataSource, where: { sql: string; params: unknown[] }): Promise<{ total: number; estimate: boolean }> {
+  const estimate = await plannerEstimate(ds, where);
+  if (estimate > ESTIMATE_ABOVE) return { total: estimate, estimate: true };
+  const [{ n }] = await ds.query(`SELECT count(*)::int AS n FROM surgical_cases c ${where.sql}`, where.params);
+  return { total: n, estimate: false };
+}
+
 export async function listCases(ds: DataSource, q: CaseListQuery, user: SessionUser): Promise<CaseListPage> {
   const where = whereClause(q, user);
   const sort = parseSort(q.sort) ?? { field: 'surgeryDate', direction: 'DESC' as const };
@@ -69,14 +80,21 @@ export async function listCases(ds: DataSource, q: CaseListQuery, user: SessionU
   const nullable = ['ariscatPoints', 'procedureCategory', 'age'].includes(sort.field);
   const order = `${SORT_SQL[sort.field] ?? 'c.surgery_date'} ${sort.direction}${nullable ? ' NULLS LAST' : ''}, c.id ${sort.direction}`;
   const n = where.params.length;
-  const rows = await ds.query(
-    `SELECT c.id, c.registry_number, c.site_id, s.code AS site_code, u.code AS unit_code, c.status, c.surgery_date::text AS surgery_date,
-            c.procedure_category, c.age, c.ariscat_points, c.ariscat_class, c.version, c.updated_at,
-            ARRAY(SELECT DISTINCT o.type FROM outcome_events o WHERE o.case_id = c.id AND o.removed_at IS NULL ORDER BY o.type) AS event_types
-       FROM surgical_cases c JOIN sites s ON s.id = c.site_id LEFT JOIN units u ON u.id = c.unit_id
-       ${where.sql} ORDER BY ${order} LIMIT $${n + 1} OFFSET $${n + 2}`,
-    [...where.params, q.pageSize, (q.page - 1) * q.pageSize],
-  );
+  // The page's ids first (an index walk with OFFSET), then the columns and the per-case event
+  // list for those rows only: a select-list subquery below OFFSET would run for every skipped row.
+  // The total (an exact count, or the planner's estimate above ESTIMATE_ABOVE rows) runs alongside.
+  const [rows, total] = await Promise.all([
+    ds.query(
+      `WITH page AS (SELECT c.id FROM surgical_cases c ${where.sql} ORDER BY ${order} LIMIT $${n + 1} OFFSET $${n + 2})
+       SELECT c.id, c.registry_number, c.site_id, s.code AS site_code, u.code AS unit_code, c.status, c.surgery_date::text AS surgery_date,
+              c.procedure_category, c.age, c.ariscat_points, c.ariscat_class, c.version, c.updated_at,
+              ARRAY(SELECT DISTINCT o.type FROM outcome_events o WHERE o.case_id = c.id AND o.removed_at IS NULL ORDER BY o.type) AS event_types
+         FROM page JOIN surgical_cases c ON c.id = page.id JOIN sites s ON s.id = c.site_id LEFT JOIN units u ON u.id = c.unit_id
+        ORDER BY ${order}`,
+      [...where.params, q.pageSize, (q.page - 1) * q.pageSize],
+    ),
+    listTotal(ds, where),
+  ]);
   const ids = rows.map((r: { id: string }) => r.id);
   const completeRows: { case_id: string; complete: boolean }[] = ids.length ? await ds.query(`SELECT case_id, complete FROM case_completeness WHERE case_id = ANY($1::uuid[])`, [ids]) : [];
   const complete = new Map(completeRows.map((r) => [r.case_id, r.complete]));
@@ -86,15 +104,5 @@ export async function listCases(ds: DataSource, q: CaseListQuery, user: SessionU
     anyPpc: (r.event_types as string[]).some((t) => (ANY_PPC_COMPONENTS as readonly string[]).includes(t)), eventTypes: r.event_types,
     complete: complete.get(r.id) ?? false, version: r.version, updatedAt: new Date(r.updated_at).toISOString(),
   }));
-  let total: number;
-  let totalIsEstimate = false;
-  const estimate = caseListIsFiltered(q) ? null : await plannerEstimate(ds, where);
-  if (estimate !== null && estimate > ESTIMATE_ABOVE) {
-    total = estimate;
-    totalIsEstimate = true;
-  } else {
-    const [{ n: count }] = await ds.query(`SELECT count(*)::int AS n FROM surgical_cases c ${where.sql}`, where.params);
-    total = count;
-  }
-  return { items, total, totalIsEstimate, page: q.page, pageSize: q.pageSize };
+  return { items, total: total.total, totalIsEstimate: total.estimate, page: q.page, pageSize: q.pageSize };
 }
