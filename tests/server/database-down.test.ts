@@ -9,9 +9,10 @@ import { createApp } from '../../server/app.js';
 import { loadConfig } from '../../server/config.js';
 import { createMailer } from '../../server/mail/mailer.js';
 import type { DataSource } from 'typeorm';
+import { TEST_PG_PORT } from '../setup/test-cluster.js';
 
 // A cluster of its own, so stopping PostgreSQL does not disturb the other tests.
-const pg = cluster({ name: 'dbdown', port: 54339, fast: true });
+const pg = cluster({ name: 'dbdown', port: TEST_PG_PORT + 10, fast: true });
 let ds: DataSource;
 let app: ReturnType<typeof createApp>;
 

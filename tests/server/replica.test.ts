@@ -12,12 +12,13 @@ import { loadConfig } from '../../server/config.js';
 import { createMailer } from '../../server/mail/mailer.js';
 import { Client, demoEmail } from './helpers.js';
 import type { DataSource } from 'typeorm';
+import { TEST_PG_PORT } from '../setup/test-cluster.js';
 
 // Growth past one machine with PostgreSQL's own streaming replication: analysis and export
 // routes read from a hot standby (DATABASE_REPLICA_URL) while writes go to the primary.
 // A primary of its own keeps the standby small and leaves the shared test cluster alone.
-const primary = cluster({ name: 'replica-primary', port: 54359, fast: true });
-const replica = standby(primary, { name: 'replica-standby', port: 54369 });
+const primary = cluster({ name: 'replica-primary', port: TEST_PG_PORT + 30, fast: true });
+const replica = standby(primary, { name: 'replica-standby', port: TEST_PG_PORT + 40 });
 let ds: DataSource;
 let readDs: DataSource;
 let app: ReturnType<typeof createApp>;
