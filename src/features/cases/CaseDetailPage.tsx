@@ -3,12 +3,13 @@
  * stored for each event, the status actions the user may take, and the audit trail.
  */
 import { useState, type ReactNode } from 'react';
-import { Link, useLocation, useParams } from 'react-router-dom';
+import { Link, useLocation, useNavigate, useParams } from 'react-router-dom';
 import { OBSERVATION_KIND_LABELS, PPC_EVENT_TYPE_LABELS, THERAPY_MODALITY_LABELS, CLAVIEN_DINDO_LABELS } from '../../../shared/clinical/codes.js';
 import { ARISCAT_RISK_CLASS_LABELS } from '../../../shared/clinical/scores.js';
 import { CASE_FIELDS, CASE_FIELD_NAMES, type CaseFieldName } from '../../../shared/registry/case.js';
 import { DICTIONARY_SECTION_LABELS, fieldMeta, type DictionarySection } from '../../../shared/registry/meta.js';
 import type { Case } from '../../../shared/registry/record.js';
+import { DEFINITION_LABELS } from '../../../shared/registry/outcome.js';
 import { EDITABLE_STATUSES, TRANSITIONS, type Transition } from '../../../shared/registry/status.js';
 import { ReasonSchema } from '../../../shared/registry/text.js';
 import { FREE_TEXT_REMINDER } from '../../../shared/registry/text.js';
@@ -56,11 +57,12 @@ function StatusActions({ c }: { c: Case }) {
   const session = useSession();
   const user = session.data!.user;
   const change = useChangeStatus(c.id);
+  const navigate = useNavigate();
   const [asking, setAsking] = useState<Transition | null>(null);
   const [reason, setReason] = useState('');
   const [reasonError, setReasonError] = useState<string | null>(null);
   const moves = TRANSITIONS.filter((t) => t.from.includes(c.status) && user.roles.some((r) => t.roles.includes(r)));
-  const go = (t: Transition, why?: string) => change.mutate({ to: t.to, version: c.version, reason: why }, { onSuccess: () => { setAsking(null); setReason(''); } });
+  const go = (t: Transition, why?: string) => change.mutate({ to: t.to, version: c.version, reason: why }, { onSuccess: () => { setAsking(null); setReason(''); navigate('.', { replace: true, state: null }); } });
   const disabledWhy = (t: Transition): string | null => {
     if (t.to === 'verified' && !c.canVerify.allowed) return c.canVerify.reason ?? 'you cannot verify this case';
     if (t.needsComplete && !c.completeness.complete) return `${c.completeness.missing.length} required item${c.completeness.missing.length === 1 ? ' is' : 's are'} missing`;
@@ -225,7 +227,7 @@ export function CaseDetailPage() {
                         {c.outcomes.map((e) => (
                           <li key={e.id} className="rounded border border-line p-2">
                             <p className="text-sm font-semibold">{PPC_EVENT_TYPE_LABELS[e.type]} · onset day {e.onsetPostoperativeDay} · Clavien–Dindo {e.clavienDindo ? CLAVIEN_DINDO_LABELS[e.clavienDindo] : 'not graded'}</p>
-                            <p className="text-xs text-muted">Judged under {e.definition} version {e.definitionVersion}. Evidence: {(e.observations as { kind: keyof typeof OBSERVATION_KIND_LABELS }[]).map((o) => OBSERVATION_KIND_LABELS[o.kind]).join(', ') || 'none'}.</p>
+                            <p className="text-xs text-muted">Judged under {DEFINITION_LABELS[e.definition] ?? e.definition}, version {e.definitionVersion}. Evidence: {(e.observations as { kind: keyof typeof OBSERVATION_KIND_LABELS }[]).map((o) => OBSERVATION_KIND_LABELS[o.kind]).join(', ') || 'none'}.</p>
                             <div className="mt-1"><DefinitionsView views={storedViews(e.type, e.evaluations)} invalid={0} title="Definitions stored with the event" /></div>
                           </li>
                         ))}
