@@ -97,7 +97,9 @@ describe('re-abstraction agreement', () => {
 
   it('when every case is re-abstracted, then the report matches cohenKappa, landisKochBand and blandAltman on the same pairs', async () => {
     const c2 = await t.as('abstractor2');
-    const items = await t.ds.query(`SELECT id, original_values FROM reabstraction_items WHERE sample_id = $1 ORDER BY ordinal`, [sampleId]);
+    const items = await t.ds.query(`SELECT id, case_id, original_values FROM reabstraction_items WHERE sample_id = $1 ORDER BY ordinal`, [sampleId]);
+    // The registry's case page is not blind: opening it during re-abstraction is listed in the report.
+    expect((await c2.get(`/api/cases/${items[3].case_id}`)).status).toBe(200);
     const pairs: { o: Record<string, unknown>; r: Record<string, unknown> }[] = [];
     for (const [i, it] of items.entries()) {
       const values = secondValues(it.original_values, i);
@@ -136,6 +138,8 @@ describe('re-abstraction agreement', () => {
     // Disagreements: every differing (case, field), here 5 sex + 4 copd + 7 age + 7 height + 1 date + 1 smoking.
     const expected = pairs.reduce((n, p) => n + FIELDS.filter((f) => label(p.o[f]) !== label(p.r[f])).length, 0);
     expect(rep.body.disagreements).toHaveLength(expected);
+    const [peeked] = await t.ds.query(`SELECT registry_number FROM surgical_cases WHERE id = $1`, [items[3].case_id]);
+    expect(rep.body.openedBeforeEntry).toEqual([{ registryNumber: peeked.registry_number }]);
   });
 
   it('when an admin adjudicates for the re-abstracted value, then the case changes through the audited update and goes back for verification', async () => {
@@ -161,7 +165,8 @@ describe('re-abstraction agreement', () => {
     const twice = await admin.post(`/api/quality/reabstraction/items/${d.itemId}/adjudications`, { field: 'heightCm', decision: 'original', reason: 'second try', caseVersion: d.caseVersion + 1 });
     expect(twice.status).toBe(409);
     const keep = rep.disagreements.find((x: { field: string }) => x.field === 'sex');
-    const k = await admin.post(`/api/quality/reabstraction/items/${keep.itemId}/adjudications`, { field: 'sex', decision: 'original', reason: 'first abstraction matches the record', caseVersion: keep.caseVersion });
+    // A reason that looks like a spreadsheet formula (checked as inert text in the export below).
+    const k = await admin.post(`/api/quality/reabstraction/items/${keep.itemId}/adjudications`, { field: 'sex', decision: 'original', reason: '=1+1 first abstraction matches the record', caseVersion: keep.caseVersion });
     expect(k.status).toBe(201);
     expect(k.body.adjudication.written).toBe(false);
   });
@@ -185,5 +190,10 @@ describe('re-abstraction agreement', () => {
     const heightRow = ws.getRows(2, ws.rowCount - 1)!.find((row) => row.getCell(1).value === 'Height')!;
     const height = rep.fields.find((f: { field: string }) => f.field === 'heightCm');
     expect(heightRow.getCell(header.indexOf('Lower limit') + 1).value).toBe(height.limits.lower);
+    // Formula-like text is neutralised with a leading apostrophe (OWASP, "CSV Injection"), never a formula cell.
+    const dis = wb.getWorksheet('Disagreements')!;
+    const reasons = dis.getRows(2, dis.rowCount - 1)!.map((row) => row.getCell(7).value).filter(Boolean);
+    expect(reasons).toContain("'=1+1 first abstraction matches the record");
+    dis.eachRow((row) => row.eachCell((c) => expect(c.formula).toBeUndefined()));
   });
 });
