@@ -80,7 +80,7 @@ export function FindingsPage() {
       <div className="grid gap-4">
         {job && (
           <Notice tone={job.status === 'succeeded' ? 'ok' : job.status === 'failed' ? 'danger' : 'info'}>
-            <span role="status">Check {job.status}{job.progress?.step ? ` · ${String(job.progress.step)}` : ''}{job.status === 'succeeded' && job.result ? ` · ${String(job.result.findings)} findings` : ''}{job.error ? ` · ${job.error}` : ''}</span>
+            <span role="status">Check {job.status}{job.progress?.step && job.status !== 'succeeded' ? ` · ${String(job.progress.step)}` : ''}{job.status === 'succeeded' && job.result ? ` · ${String(job.result.findings)} findings` : ''}{job.error ? ` · ${job.error}` : ''}</span>
           </Notice>
         )}
         {run.error && <Notice tone="danger">{getErrorMessage(run.error)}</Notice>}
