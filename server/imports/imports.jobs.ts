@@ -34,7 +34,7 @@ async function loadRow(context: AppContext, importId: string): Promise<Row> {
   return r;
 }
 
-async function plan(context: AppContext, r: Row, user: PlanUser, tools: JobTools): Promise<Plan> {
+async function plan(context: AppContext, r: Row, user: PlanUser, tools: JobTools, retainRows = true): Promise<Plan> {
   const filePath = storedFile(context.config, r.stored_path);
   if (!filePath) throw new AppError(410, 'file_gone', 'the uploaded file is no longer kept; upload it again');
   return buildPlan({
@@ -43,6 +43,7 @@ async function plan(context: AppContext, r: Row, user: PlanUser, tools: JobTools
     today: todayIn(context.config.NETWORK_TIME_ZONE, new Date()), therapySettings: await therapyCheckSettings(context.ds), maxProblems: MAX_STORED_PROBLEMS,
     onProgress: (p) => tools.progress(p),
     checkCancelled: async () => { if (await tools.isCancelled()) throw new JobCancelled(); },
+    retainRows,
   });
 }
 
@@ -51,7 +52,7 @@ registerJobKind(DRY_RUN_JOB, async (job, tools, context) => {
   const r = await loadRow(context, importId);
   try {
     const user = await planUser(context, job.createdBy);
-    const p = await plan(context, r, user, tools);
+    const p = await plan(context, r, user, tools, false);
     await context.ds.query(`UPDATE import_jobs SET status = 'validated', counts = $2, problems = $3, problem_count = $4, validated_at = now(), error = NULL WHERE id = $1`,
       [importId, JSON.stringify(p.counts), JSON.stringify(p.problems), p.problemCount]);
     return { importId, counts: p.counts, problemCount: p.problemCount };

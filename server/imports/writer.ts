@@ -25,6 +25,35 @@ async function insertRows(tx: EntityManager, table: string, columns: readonly st
   await tx.query(`INSERT INTO ${table} (${columns.map((c) => `"${c}"`).join(', ')}) VALUES ${tuples.join(', ')}`, params);
 }
 
+const typeCache = new Map<string, Map<string, string>>();
+/** Element types of a table's columns (udt names: int4, text, date, uuid, jsonb, ...). */
+async function columnTypes(tx: EntityManager, table: string): Promise<Map<string, string>> {
+  let m = typeCache.get(table);
+  if (!m) {
+    const rows: { column_name: string; udt_name: string }[] = await tx.query(`SELECT column_name, udt_name FROM information_schema.columns WHERE table_schema = 'public' AND table_name = $1`, [table]);
+    m = new Map(rows.map((r) => [r.column_name, r.udt_name]));
+    typeCache.set(table, m);
+  }
+  return m;
+}
+
+/**
+ * Many rows in one statement with one array parameter per column (INSERT ... SELECT FROM unnest):
+ * the statement stays small however many rows, which is much cheaper to parse than VALUES lists.
+ * For tables without array columns only.
+ */
+async function insertColumns(tx: EntityManager, table: string, columns: readonly string[], rows: readonly unknown[][]): Promise<void> {
+  if (!rows.length) return;
+  const types = await columnTypes(tx, table);
+  const arrays = columns.map((_, i) => rows.map((r) => r[i] ?? null));
+  const casts = columns.map((c, i) => {
+    const t = types.get(c);
+    if (!t || t.startsWith('_')) throw new Error(`insertColumns: ${table}.${c} is unknown or an array column`);
+    return `$${i + 1}::${t}[]`;
+  });
+  await tx.query(`INSERT INTO ${table} (${columns.map((c) => `"${c}"`).join(', ')}) SELECT * FROM unnest(${casts.join(', ')})`, arrays);
+}
+
 /** Allocates `n` consecutive registry numbers of a site and year (the advisory lock is held to commit). */
 async function allocateNumbers(tx: EntityManager, siteId: string, siteCode: string, year: number, n: number): Promise<string[]> {
   const first = await nextRegistryNumber(tx, siteId, siteCode, year);
@@ -72,7 +101,7 @@ export async function writePlan(
       entries.push({ ...base, action: 'case-created', entityId: id, field: 'registryNumber', newValue: number, details: { via: 'import', importId, row: c.row, siteId: c.siteId } });
       result.registryNumbers.push({ row: c.row, registryNumber: number });
     }
-    await insertRows(tx, 'surgical_cases', caseCols, rows);
+    await insertColumns(tx, 'surgical_cases', caseCols, rows);
     await audit(tx, entries);
     written += chunk.length;
     result.casesCreated += chunk.length;

@@ -8,7 +8,7 @@
 import fs from 'node:fs';
 import os from 'node:os';
 import path from 'node:path';
-import ExcelJS from 'exceljs';
+import { execFileSync } from 'node:child_process';
 import type { Bench } from './harness.js';
 import { loadConfig } from '../../server/config.js';
 import type { AppContext } from '../../server/context.js';
@@ -20,30 +20,6 @@ import type { SessionUser } from '../../shared/auth/user.js';
 
 const CASES = Number(process.env.BENCH_IMPORT_CASES ?? 50_000);
 
-async function writeWorkbook(file: string): Promise<void> {
-  const cols = CASE_COLUMNS.filter((c) => c.key !== 'registryNumber');
-  const wb = new ExcelJS.stream.xlsx.WorkbookWriter({ filename: file, useSharedStrings: true, useStyles: true });
-  const ws = wb.addWorksheet('Cases');
-  ws.addRow(cols.map((c) => c.label)).commit();
-  const day = (n: number) => new Date(Date.UTC(2025, 0, 1) + (n % 600) * 86_400_000);
-  for (let i = 0; i < CASES; i++) {
-    const v: Record<string, unknown> = {
-      caseKey: `B${i}`, siteCode: i % 2 ? 'HBR' : 'KSV', unitCode: ['SURG-A', 'SURG-B', 'ORTHO', 'ICU'][i % 4], localIdentifier: `BENCH-${i}`,
-      eligible: 'yes', admissionDate: day(i), surgeryDate: day(i + 1), age: 18 + (i % 80), sex: i % 2 ? 'female' : 'male', heightCm: 150 + (i % 40), weightKg: 50 + (i % 60) + 0.5,
-      asaClass: ['I', 'II', 'III', 'IV'][i % 4], asaEmergency: 'no', smokingStatus: ['never', 'former', 'current'][i % 3], copd: i % 7 === 0 ? 'yes' : 'no', obstructiveSleepApnoea: 'no', heartFailure: 'no',
-      preopSpO2: 90 + (i % 10), preopHaemoglobin: 10 + (i % 50) / 10, preopHaemoglobinUnit: 'g/dL', respiratoryInfectionLastMonth: 'no', functionalStatus: 'independent',
-      incisionSite: 'peripheral', approach: 'open', urgency: 'elective', anaesthesia: 'general', durationMinutes: 30 + (i % 300), therapyGiven: 'yes', complicationsReviewed: 'yes',
-      dischargeDate: day(i + 6), icuDays: i % 3, ventilatorDays: 0, readmitted30d: 'no', died30d: 'no',
-    };
-    ws.addRow(cols.map((c) => {
-      if (c.key === 'procedureCategory' && c.cell.type === 'code') return c.cell.codes[i % c.cell.codes.length];
-      return v[c.key] ?? null;
-    })).commit();
-  }
-  ws.commit();
-  await wb.commit();
-}
-
 export default async function importBench(b: Bench): Promise<void> {
   const dataDir = fs.mkdtempSync(path.join(os.tmpdir(), 'alveolog-import-bench-'));
   const config = loadConfig({ DATABASE_URL: 'postgres://unused', SESSION_SECRET: 's'.repeat(40), IDENTIFIER_HASH_SECRET: 'h'.repeat(40), DATA_DIR: dataDir, IMPORT_MAX_ROWS: '100000' } as NodeJS.ProcessEnv);
@@ -54,7 +30,7 @@ export default async function importBench(b: Bench): Promise<void> {
   const actor = { user, ip: null };
   const file = path.join(dataDir, 'bench-50k.xlsx');
   const tGen = performance.now();
-  await writeWorkbook(file);
+  execFileSync(process.execPath, ['--import', 'tsx', path.resolve('tests/bench/import-workbook.ts'), file, String(CASES)], { stdio: 'inherit' });
   b.log(`generated ${CASES} cases in ${((performance.now() - tGen) / 1000).toFixed(1)} s (${(fs.statSync(file).size / 1048576).toFixed(1)} MB)`);
 
   const measure = async (name: string, target: string, fn: () => Promise<unknown>) => {
