@@ -11,6 +11,7 @@ import { monthLabel } from '../measures/months.js';
 // Okabe M, Ito K, Color Universal Design (2002): the palette of the app's chart-1..8 tokens.
 const OI = { blue: '#0072b2', orange: '#e69f00', green: '#009e73', pink: '#cc79a7', sky: '#56b4e9', vermillion: '#d55e00', yellow: '#f0e442', black: '#000000' };
 
+const clip = (s: string, n: number) => (s.length > n ? `${s.slice(0, n - 1)}…` : s);
 const esc = (s: string) => s.replace(/&/g, '&amp;').replace(/</g, '&lt;').replace(/>/g, '&gt;').replace(/"/g, '&quot;');
 
 export function chartSvg(chart: ChartResponse, opts: { width?: number; height?: number } = {}): string {
@@ -30,7 +31,7 @@ export function chartSvg(chart: ChartResponse, opts: { width?: number; height?: 
   const out: string[] = [];
   out.push(`<svg xmlns="http://www.w3.org/2000/svg" width="${W}" height="${H}" viewBox="0 0 ${W} ${H}" font-family="Noto Sans, DejaVu Sans, sans-serif" font-size="12">`);
   out.push(`<rect width="${W}" height="${H}" fill="#ffffff"/>`);
-  out.push(`<text x="${pad.l}" y="20" font-size="15" font-weight="bold" fill="#1f2a2e">${esc(`${chart.measure.label} — ${chart.scope.label}`)}</text>`);
+  out.push(`<text x="${pad.l}" y="20" font-size="15" font-weight="bold" fill="#1f2a2e">${esc(clip(`${chart.measure.label} — ${chart.scope.label}`, Math.floor((W - pad.l) / 8.5)))}</text>`);
   out.push(`<text x="${pad.l}" y="38" fill="#56636a">${esc(`${chart.measure.chart} with run-chart median; unit: ${chart.measure.unit}; hollow points are provisional (month not closed)`)}</text>`);
   // Axes and gridlines
   const ticks = 5;
@@ -53,7 +54,7 @@ export function chartSvg(chart: ChartResponse, opts: { width?: number; height?: 
     const i = pts.findIndex((p) => p.period === a.month || (chart.view === 'quarterly' && p.period === `${a.month.slice(0, 4)}-Q${Math.floor((Number(a.month.slice(5)) - 1) / 3) + 1}`));
     if (i < 0) return;
     out.push(`<line x1="${x(i)}" x2="${x(i)}" y1="${pad.t}" y2="${H - pad.b}" stroke="${OI.pink}" stroke-dasharray="2 3"/>`);
-    out.push(`<text x="${x(i) + 3}" y="${pad.t + 26 + (k % 3) * 13}" fill="#7a3a63">${esc(`✎ ${a.text}`)}</text>`);
+    out.push(`<text x="${x(i) + 3}" y="${pad.t + 14 + (k % 4) * 13}" fill="#7a3a63" font-size="11">${esc(`✎ ${a.siteCode && chart.scope.site === 'network' ? `${a.siteCode}: ` : ''}${a.text}`)}</text>`);
   });
   // Step lines for limits and centre, dashed median (per phase)
   const stepLine = (get: (i: number) => number | null, stroke: string, dash?: string) => {
@@ -87,7 +88,8 @@ export function chartSvg(chart: ChartResponse, opts: { width?: number; height?: 
     if (p.signals.length) {
       // A signal point: a diamond (and a triangle when beyond a limit) with its signal number.
       out.push(`<path d="M${cx},${cy - 7} L${cx + 7},${cy} L${cx},${cy + 7} L${cx - 7},${cy} Z" fill="${p.provisional ? '#ffffff' : OI.vermillion}" stroke="${OI.vermillion}" stroke-width="2"/>`);
-      out.push(`<text x="${cx}" y="${cy - 10}" text-anchor="middle" font-size="10" fill="${OI.black}">${p.signals.map((s) => signalNumber.get(s)).join(',')}</text>`);
+      const first = p.signals.filter((s) => chart.signals.find((x) => x.id === s)?.startPeriod === p.period).map((s) => signalNumber.get(s));
+      if (first.length) out.push(`<text x="${cx}" y="${cy - 10}" text-anchor="middle" font-size="11" font-weight="bold" fill="${OI.black}">${first.join(',')}</text>`);
     } else {
       out.push(`<circle cx="${cx}" cy="${cy}" r="4" fill="${p.provisional ? '#ffffff' : OI.blue}" stroke="${OI.blue}" stroke-width="2"/>`);
     }

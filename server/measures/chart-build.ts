@@ -125,7 +125,9 @@ function buildPhase(m: MeasureDefinition, inputs: PeriodInput[], phaseIndex: num
     const id = `${s.chart}:${s.rule}:${phaseIndex}:${s.startPeriod}`;
     const provisional = points.slice(startIdx, endIdx + 1).some((p) => p.provisional);
     out.signals.push({ ...s, id, phase: phaseIndex, label: signalRuleLabel(s.rule), favourable: favourable(m, s.direction), provisional });
-    for (let i = startIdx; i <= endIdx; i++) if (values[i] !== null || s.rule === 'longest-run' || s.rule === 'few-crossings') points[i].signals.push(id);
+    // Anhøj's run-count rules speak of the whole phase, not of points: they are listed, not marked.
+    if (s.rule === 'longest-run' || s.rule === 'few-crossings') return;
+    for (let i = startIdx; i <= endIdx; i++) if (values[i] !== null) points[i].signals.push(id);
   };
   const span = (a: number, b: number) => (a === b ? monthLabel(period(a)) : `${monthLabel(period(a))} to ${monthLabel(period(b))}`);
   const countBetween = (a: number, b: number) => present.filter((i) => i >= a && i <= b).length;

@@ -39,7 +39,7 @@ describe('committee review in the browser', () => {
       await expectAccessible(page, 'committee charts');
       await screenshot(page, 'committee-charts-hbr');
       // Re-base from the protocol note: two phases.
-      await page.getByLabel('Start a new phase here (re-base)').first().check();
+      await page.getByLabel('Start a new phase here (re-base)').first().click();
       await page.getByText(/Phase 2 \(/).waitFor();
       await screenshot(page, 'committee-charts-hbr-rebased');
       // The network's process measure: therapy uptake rises after the protocols.
