@@ -103,7 +103,10 @@ export async function chartMonths(ds: DataSource, settings: MeasureSettings, q: 
   const to = q.to ?? currentMonth(c.timeZone, c.now);
   const from = q.from ?? settings.baselineStart ?? (await firstDataMonth(ds)) ?? to;
   if (from > to) throw badRequest(`the chart starts (${from}) after it ends (${to})`, 'choose a first month on or before the last');
-  const months = monthRange(from, to);
+  let months = monthRange(from, to);
+  // Without an explicit start, a stray old case (e.g. a mistyped year) must not break the chart:
+  // show the latest 120 months. An explicit request over the limit is refused.
+  if (months.length > 120 && !q.from) months = months.slice(-120);
   if (months.length > 120) throw badRequest(`the chart would cover ${months.length} months`, 'choose at most 120 months (10 years)', [{ path: 'from', message: 'too far back' }]);
   return months;
 }

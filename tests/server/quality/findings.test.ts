@@ -73,9 +73,14 @@ describe('definition consistency check', () => {
     expect(new Set(los.items.map((f: { caseId: string }) => f.caseId))).toEqual(expectedLos);
     expect(expectedLos.size).toBeGreaterThan(0);
 
-    // Pneumonia: the demo stores PNU1 results as the server evaluates them, so none is stale,
-    // and "recorded but not met" are exactly the infection events stored as not met.
-    expect((await all('pneumonia-flag-stale')).total).toBe(0);
+    // Pneumonia: every event saved through the registry stores its PNU1 result as the server
+    // evaluates it, so the only stale ones are infection events written without a stored result
+    // (other test files sharing this database insert such rows directly).
+    const [{ n: unevaluated }] = await t.ds.query(
+      `SELECT count(*)::int AS n FROM outcome_events o JOIN surgical_cases c ON c.id = o.case_id
+        WHERE c.site_id = $1 AND c.status <> 'withdrawn' AND o.removed_at IS NULL AND o.type = 'respiratory-infection'
+          AND o.pneumonia_nhsn_met IS NULL AND c.admission_date IS NOT NULL AND c.age IS NOT NULL`, [sites.HBR]);
+    expect((await all('pneumonia-flag-stale')).total).toBe(unevaluated);
     const [{ n: notMet }] = await t.ds.query(
       `SELECT count(*)::int AS n FROM outcome_events o JOIN surgical_cases c ON c.id = o.case_id
         WHERE c.site_id = $1 AND c.status <> 'withdrawn' AND o.removed_at IS NULL AND o.type = 'respiratory-infection' AND NOT o.pneumonia_nhsn_met
