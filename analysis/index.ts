@@ -1,5 +1,5 @@
 /**
- * Alveolog's analysis module: pure functions, no database, HTTP, clock or randomness.
+ * Alveolog's analysis module: pure functions, no database, HTTP or clock; randomness only from the seeded generator.
  * The server computes counts with SQL aggregates and hands them here; the client only displays.
  */
 
@@ -58,4 +58,5 @@ export {
   type Suppression,
 } from './stats/suppress-small-cells.js';
 
+export { mulberry32 } from './random/mulberry32.js';
 export * from './clinical/index.js';

@@ -6,17 +6,9 @@
  * is equally likely.
  */
 
-/** A function returning uniform numbers in [0, 1) from a 32-bit unsigned seed. */
-export function mulberry32(seed: number): () => number {
-  let a = seed >>> 0;
-  return () => {
-    a = (a + 0x6d2b79f5) >>> 0;
-    let t = a;
-    t = Math.imul(t ^ (t >>> 15), t | 1);
-    t ^= t + Math.imul(t ^ (t >>> 7), t | 61);
-    return ((t ^ (t >>> 14)) >>> 0) / 4294967296;
-  };
-}
+import { mulberry32 } from '../../analysis/random/mulberry32.js';
+
+export { mulberry32 };
 
 /** `k` items drawn without replacement, in draw order (a copy; the input is not changed). */
 export function sampleWithoutReplacement<T>(items: readonly T[], k: number, seed: number): T[] {

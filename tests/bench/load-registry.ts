@@ -14,17 +14,8 @@ import { from as copyFrom } from 'pg-copy-streams';
 import { ariscatScore } from '../../analysis/clinical/ariscat.js';
 import { INCISION_SITE_TO_ARISCAT, type IncisionSite } from '../../shared/clinical/codes.js';
 import { SITES } from '../../server/db/seed/scenario.js';
+import { mulberry32 } from '../../analysis/random/mulberry32.js';
 
-function mulberry32(seed: number): () => number {
-  let a = seed >>> 0;
-  return () => {
-    a = (a + 0x6d2b79f5) >>> 0;
-    let t = a;
-    t = Math.imul(t ^ (t >>> 15), t | 1);
-    t ^= t + Math.imul(t ^ (t >>> 7), t | 61);
-    return ((t ^ (t >>> 14)) >>> 0) / 4294967296;
-  };
-}
 
 const CATEGORIES: { category: string; incision: IncisionSite[]; weight: number; minutes: number; unit: string }[] = [
   { category: 'upper-gastrointestinal', incision: ['upper-abdominal', 'thoraco-abdominal'], weight: 6, minutes: 220, unit: 'SURG-A' },

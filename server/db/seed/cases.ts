@@ -19,6 +19,7 @@
  * - statuses: locked and verified in older months, complete and draft in the recent ones.
  * Inserted with multi-row INSERTs in one transaction (a few seconds).
  */
+import { mulberry32 } from '../../../analysis/random/mulberry32.js';
 import type { DataSource, EntityManager } from 'typeorm';
 import type { Observation } from '../../../shared/clinical/observations.js';
 import type { PpcEventType, ProcedureCategory, IncisionSite, TherapyModality } from '../../../shared/clinical/codes.js';
@@ -37,16 +38,9 @@ import { demoSeedSteps } from './steps.js';
 
 // --- Seeded randomness ----------------------------------------------------------------------
 
-/** mulberry32: a small public-domain 32-bit PRNG; uniform numbers in [0, 1). */
+/** Helpers over the one seeded generator (mulberry32, analysis/random). */
 export function prng(seed: number) {
-  let a = seed >>> 0;
-  const next = () => {
-    a = (a + 0x6d2b79f5) >>> 0;
-    let t = a;
-    t = Math.imul(t ^ (t >>> 15), t | 1);
-    t ^= t + Math.imul(t ^ (t >>> 7), t | 61);
-    return ((t ^ (t >>> 14)) >>> 0) / 4294967296;
-  };
+  const next = mulberry32(seed);
   const normal = (mean: number, sd: number) => mean + sd * Math.sqrt(-2 * Math.log(1 - next())) * Math.cos(2 * Math.PI * next());
   return {
     next,

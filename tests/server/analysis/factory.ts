@@ -5,16 +5,8 @@
  */
 import type { DataSource } from 'typeorm';
 
-export function mulberry32(seed: number): () => number {
-  let a = seed >>> 0;
-  return () => {
-    a = (a + 0x6d2b79f5) >>> 0;
-    let t = a;
-    t = Math.imul(t ^ (t >>> 15), t | 1);
-    t ^= t + Math.imul(t ^ (t >>> 7), t | 61);
-    return ((t ^ (t >>> 14)) >>> 0) / 4294967296;
-  };
-}
+export { mulberry32 } from '../../../analysis/random/mulberry32.js';
+import { mulberry32 } from '../../../analysis/random/mulberry32.js';
 
 const STATUSES = ['draft', 'complete', 'verified', 'verified', 'locked', 'locked', 'withdrawn'];
 const CLASSES = ['low', 'low', 'intermediate', 'high', null];
