@@ -21,7 +21,8 @@ export async function allCharts(ds: DataSource, to: string, from?: string): Prom
   const settings = await measureSettings(ds);
   const closed = await closedMonths(ds);
   const first = from ?? (await firstDataMonth(ds)) ?? to;
-  const months = monthRange(first <= to ? first : to, to);
+  // The same window as a chart asked without a start: at most the latest 120 months (chartMonths).
+  const months = monthRange(first <= to ? first : to, to).slice(from ? 0 : -120);
   const rows = await readMonthly(ds, months[0], months[months.length - 1], closed, null);
   const sites: { id: string; code: string; name: string }[] = await ds.query(`SELECT id, code, name FROM sites WHERE active ORDER BY code`);
   const scopes = [{ site: 'network', siteCode: null as string | null }, ...sites.map((s) => ({ site: s.id, siteCode: s.code }))];
