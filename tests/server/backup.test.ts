@@ -1,9 +1,9 @@
+import { testDbEnv } from '../setup/db-env.js';
 import { describe, expect, it } from 'vitest';
 import fs from 'node:fs';
 import os from 'node:os';
 import path from 'node:path';
 import pg from 'pg';
-import { inject } from 'vitest';
 // @ts-expect-error plain ESM module without types
 import { backupDatabase, restoreDatabase } from '../../server/bootstrap/backup-lib.mjs';
 import { migrate } from '../../server/db/migrate.js';
@@ -27,7 +27,7 @@ async function fingerprint(url: string): Promise<Record<string, { rows: number; 
 
 describe('backup and restore', () => {
   it('when the database is backed up, destroyed and restored, then every table has the same rows (count and checksum)', async () => {
-    const env = inject('testDbEnv');
+    const env = testDbEnv();
     // A scratch copy of this run's database, so the other tests keep theirs.
     const name = `${new URL(env.DATABASE_OWNER_URL).pathname.slice(1)}_bk`;
     const superUrl = env.DATABASE_SUPER_URL;

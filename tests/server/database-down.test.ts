@@ -1,6 +1,6 @@
+import { testDbEnv } from '../setup/db-env.js';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import request from 'supertest';
-import { inject } from 'vitest';
 // @ts-expect-error plain ESM module without types
 import { cluster, ensureDatabase, dbEnv } from '../../server/bootstrap/lib.mjs';
 import { migrate } from '../../server/db/migrate.js';
@@ -19,7 +19,7 @@ let app: ReturnType<typeof createApp>;
 beforeAll(async () => {
   pg.start();
   const roles = ensureDatabase(pg, 'alveolog_dbdown');
-  const env = { ...dbEnv(pg, 'alveolog_dbdown', roles), ...inject('testDbEnv'), ...dbEnv(pg, 'alveolog_dbdown', roles) } as Record<string, string>;
+  const env = { ...dbEnv(pg, 'alveolog_dbdown', roles), ...testDbEnv(), ...dbEnv(pg, 'alveolog_dbdown', roles) } as Record<string, string>;
   await migrate(env.DATABASE_OWNER_URL, env.DATABASE_APP_ROLE);
   const config = loadConfig(env as NodeJS.ProcessEnv);
   ds = await createDataSource(config.DATABASE_URL, 3).initialize();

@@ -1,6 +1,6 @@
+import { testDbEnv } from '../setup/db-env.js';
 import request from 'supertest';
 import type { Express } from 'express';
-import { inject } from 'vitest';
 import { loadConfig, type Config } from '../../server/config.js';
 import { createDataSource } from '../../server/db/create-data-source.js';
 import { createApp } from '../../server/app.js';
@@ -53,7 +53,7 @@ export interface TestApp {
 
 /** Builds the app in-process on this run's database (a clone of the seeded template). */
 export async function startTestApp(overrides: Record<string, string> = {}, opts: { staticDir?: string } = {}): Promise<TestApp> {
-  const env = { ...inject('testDbEnv'), ...overrides };
+  const env = { ...testDbEnv(), ...overrides };
   const smtpDs = await createDataSource(env.DATABASE_URL, 2).initialize();
   const smtp = await startSmtpStandIn(smtpDs, 0);
   const config = loadConfig({ ...env, SMTP_STANDIN: 'true', SMTP_PORT: String(smtp.port) } as NodeJS.ProcessEnv);

@@ -1,7 +1,7 @@
+import { testDbEnv } from '../setup/db-env.js';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import fs from 'node:fs';
 import request from 'supertest';
-import { inject } from 'vitest';
 // @ts-expect-error plain ESM module without types
 import { cluster, standby, ensureDatabase, dbEnv } from '../../server/bootstrap/lib.mjs';
 import { migrate } from '../../server/db/migrate.js';
@@ -27,7 +27,7 @@ let ownerDs: DataSource;
 beforeAll(async () => {
   primary.start();
   const roles = ensureDatabase(primary, 'alveolog_replica');
-  const env = { ...inject('testDbEnv'), ...dbEnv(primary, 'alveolog_replica', roles) } as Record<string, string>;
+  const env = { ...testDbEnv(), ...dbEnv(primary, 'alveolog_replica', roles) } as Record<string, string>;
   await migrate(env.DATABASE_OWNER_URL, env.DATABASE_APP_ROLE);
   ownerDs = await createDataSource(env.DATABASE_OWNER_URL, 2).initialize();
   const [{ n }] = await ownerDs.query(`SELECT count(*)::int AS n FROM users`);
@@ -70,9 +70,10 @@ describe('read replica', () => {
       // A change on the primary: ten analysed cases withdrawn (the roll-up triggers follow).
       await ownerDs.query(`UPDATE surgical_cases SET status = 'withdrawn', withdrawn_reason = 'replica test' WHERE id IN (SELECT id FROM surgical_cases WHERE status IN ('verified', 'locked') ORDER BY id LIMIT 10)`);
       // A write through the API goes to the primary even now.
-      const saved = await analyst.post('/api/cohorts', { name: 'Replica check', filter: {}, shared: false });
+      const name = `Replica check ${Date.now()}`;
+      const saved = await analyst.post('/api/cohorts', { name, filter: {}, shared: false });
       expect(saved.status).toBe(201);
-      expect((await ds.query(`SELECT count(*)::int AS n FROM saved_cohorts WHERE name = 'Replica check'`))[0].n).toBe(1);
+      expect((await ds.query(`SELECT count(*)::int AS n FROM saved_cohorts WHERE name = $1`, [name]))[0].n).toBe(1);
       expect(await size()).toBe(before);
     } finally {
       replica.psql('SELECT pg_wal_replay_resume()');

@@ -2,11 +2,11 @@
  * A server killed (SIGKILL) while it generates an approved export leaves no downloadable file;
  * at the next start the orphaned job is failed and retryable, and a retry produces the file.
  */
+import { testDbEnv } from '../../setup/db-env.js';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import fs from 'node:fs';
 import os from 'node:os';
 import path from 'node:path';
-import { inject } from 'vitest';
 import { createDataSource } from '../../../server/db/create-data-source.js';
 import type { DataSource } from 'typeorm';
 import { startServerProcess, waitFor, type ServerProcess } from '../imports/server-process.js';
@@ -16,7 +16,7 @@ const servers: ServerProcess[] = [];
 const dataDir = fs.mkdtempSync(path.join(os.tmpdir(), 'alveolog-exports-crash-'));
 const env = { DATA_DIR: dataDir, LOG_LEVEL: 'warn' };
 
-beforeAll(async () => { db = await createDataSource(inject('testDbEnv').DATABASE_URL, 2).initialize(); });
+beforeAll(async () => { db = await createDataSource(testDbEnv().DATABASE_URL, 2).initialize(); });
 afterAll(async () => {
   for (const s of servers) await s.stop().catch(() => undefined);
   await db.destroy();

@@ -3,8 +3,8 @@
  * transaction, so PostgreSQL rolls it back; at the next start the runner marks the orphaned job
  * failed (failOrphanedJobs), and a retry imports every row.
  */
+import { testDbEnv } from '../../setup/db-env.js';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
-import { inject } from 'vitest';
 import { createDataSource } from '../../../server/db/create-data-source.js';
 import type { DataSource } from 'typeorm';
 import { freshDataDir, upload, workbook } from './support.js';
@@ -17,7 +17,7 @@ const servers: ServerProcess[] = [];
 const dataDir = freshDataDir();
 const env = { DATA_DIR: dataDir, IMPORT_BATCH_ROWS: '25', LOG_LEVEL: 'warn' };
 
-beforeAll(async () => { db = await createDataSource(inject('testDbEnv').DATABASE_URL, 2).initialize(); });
+beforeAll(async () => { db = await createDataSource(testDbEnv().DATABASE_URL, 2).initialize(); });
 afterAll(async () => {
   for (const s of servers) await s.stop().catch(() => undefined);
   await db.destroy();

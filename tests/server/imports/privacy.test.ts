@@ -5,11 +5,11 @@
  * table), nor the server's log file, nor the upload folder once the imports are committed or
  * abandoned, nor the problems download.
  */
+import { testDbEnv } from '../../setup/db-env.js';
 import fs from 'node:fs';
 import path from 'node:path';
 import ExcelJS from 'exceljs';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
-import { inject } from 'vitest';
 import type { DataSource } from 'typeorm';
 import { createDataSource } from '../../../server/db/create-data-source.js';
 import { freshDataDir, upload, workbook } from './support.js';
@@ -26,7 +26,7 @@ const dataDir = freshDataDir();
 const logFile = path.join(dataDir, 'server.log');
 
 beforeAll(async () => {
-  db = await createDataSource(inject('testDbEnv').DATABASE_OWNER_URL ?? inject('testDbEnv').DATABASE_URL, 2).initialize();
+  db = await createDataSource(testDbEnv().DATABASE_OWNER_URL ?? testDbEnv().DATABASE_URL, 2).initialize();
   // info level: the most the server logs in production.
   server = await startServerProcess({ DATA_DIR: dataDir, LOG_FILE: logFile, LOG_LEVEL: 'debug' });
 });

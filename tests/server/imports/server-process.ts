@@ -1,8 +1,8 @@
-/** A real server process (node --import tsx server/main.ts) on this run's test database. */
+/** A real server process (node --import tsx server/main.ts) on this test file's database. */
+import { testDbEnv } from '../../setup/db-env.js';
 import { spawn, type ChildProcess } from 'node:child_process';
 import net from 'node:net';
 import request from 'supertest';
-import { inject } from 'vitest';
 import { Client, demoEmail, type DemoKey } from '../helpers.js';
 
 export async function freePort(): Promise<number> {
@@ -23,7 +23,7 @@ export async function startServerProcess(env: Record<string, string>): Promise<S
   const port = await freePort();
   const child = spawn(process.execPath, ['--import', 'tsx', 'server/main.ts'], {
     cwd: process.cwd(),
-    env: { ...process.env, ...inject('testDbEnv'), PORT: String(port), SMTP_STANDIN: 'false', ...env },
+    env: { ...process.env, ...testDbEnv(), PORT: String(port), SMTP_STANDIN: 'false', ...env },
     stdio: ['ignore', 'pipe', 'pipe', 'ipc'],
   });
   let output = '';
