@@ -34,9 +34,12 @@ const CANDIDATES: Req[] = [
   { method: 'GET', path: '/api/dictionary', role: 'researcher' },
   { method: 'GET', path: '/api/measures', role: 'committee' },
   { method: 'GET', path: '/api/cohorts', role: 'analyst' },
-  { method: 'POST', path: '/api/analysis/rates', body: { filter: {} }, role: 'analyst' },
+  { method: 'GET', path: '/api/analysis/rates?from=2021-12-01&to=2026-11-30', role: 'analyst' },
+  { method: 'GET', path: '/api/measures/any-ppc/chart?site=network', role: 'committee' },
   { method: 'POST', path: '/api/cohorts', body: { name: 'Load-test cohort', filter: {}, shared: false }, role: 'analyst' },
 ];
+
+let written = 0;
 
 async function main() {
   const t0 = Date.now();
@@ -48,6 +51,7 @@ async function main() {
     const s = sessions[c.role];
     const r = await fetch(`${base}${c.path}`, { method: c.method, headers: { cookie: s.cookie, 'x-csrf-token': s.csrf, 'content-type': 'application/json' }, body: c.body ? JSON.stringify(c.body) : undefined });
     if (r.ok) mix.push(c);
+    else if (c.path === '/api/cohorts' && c.method === 'POST') mix.push(c);
     else console.log(`(left out of the mix: ${c.method} ${c.path} answered ${r.status})`);
   }
   const writes = mix.filter((m) => m.method !== 'GET').length;
@@ -62,7 +66,11 @@ async function main() {
       path: m.path,
       headers: { cookie: sessions[m.role].cookie, 'x-csrf-token': sessions[m.role].csrf, 'content-type': 'application/json' },
       body: m.body ? JSON.stringify(m.body) : undefined,
-    })),
+      // Saved cohorts need unique names: each write gets its own.
+      ...(m.method === 'POST' && m.path === '/api/cohorts'
+        ? { setupRequest: (req: autocannon.Request) => ({ ...req, body: JSON.stringify({ ...(m.body as object), name: `Load-test cohort ${++written}` }) }) }
+        : {}),
+    })) as autocannon.Request[],
   });
   const rows = [
     ['requests', String(result.requests.total)],
@@ -75,6 +83,7 @@ async function main() {
     ['non-2xx', String(result.non2xx)],
   ];
   console.table(Object.fromEntries(rows));
+  // autocannon reports p90 and p97.5, not p95: the target is checked on p97.5, the stricter one.
   const p95 = (result.latency as unknown as Record<string, number>).p95 ?? result.latency.p97_5;
   const ok = result.errors === 0 && result.non2xx === 0 && result.timeouts === 0 && p95 < 250;
   console.log(`${ok ? 'target met' : 'TARGET MISSED'}: 0 errors and p95 < 250 ms (p95 ${p95} ms)`);
