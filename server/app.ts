@@ -31,25 +31,31 @@ export function createApp(context: AppContext, opts: { staticDir?: string } = {}
   sessionPool.on('error', () => undefined); // reconnects on next use; errors surface per request
   app.locals.sessionPool = sessionPool;
   const idleMs = config.IDLE_MINUTES * 60_000;
+  // The session row is rewritten at most once per `refreshMs` (not on every request: a write per
+  // GET halved the throughput under load). The idle check allows for that granularity, so a
+  // session ends at most `refreshMs` late and never early; the store row and the cookie live as
+  // long, and touch() is off because the periodic save already renews the row's expiry.
+  const refreshMs = Math.min(60_000, idleMs / 10);
   app.use(
     '/api',
     session({
       name: 'alveolog.sid',
-      store: new PgStore({ pool: sessionPool, tableName: 'session', pruneSessionInterval: 15 * 60 }),
+      store: new PgStore({ pool: sessionPool, tableName: 'session', pruneSessionInterval: 15 * 60, disableTouch: true }),
       secret: config.SESSION_SECRET,
       resave: false,
       saveUninitialized: false,
       rolling: true,
-      cookie: { httpOnly: true, sameSite: 'strict', secure: config.NODE_ENV === 'production' && !!config.APP_URL?.startsWith('https'), maxAge: idleMs, path: '/' },
+      cookie: { httpOnly: true, sameSite: 'strict', secure: config.NODE_ENV === 'production' && !!config.APP_URL?.startsWith('https'), maxAge: idleMs + refreshMs, path: '/' },
     }),
   );
   // Idle time-out for shared ward computers (OWASP ASVS V3.3.2): a session unused for IDLE_MINUTES ends.
   app.use('/api', (req, _res, next) => {
     const s = req.session as unknown as { lastSeen?: number; passport?: unknown } | undefined;
-    if (s?.passport && s.lastSeen && Date.now() - s.lastSeen > idleMs) {
+    const now = Date.now();
+    if (s?.passport && s.lastSeen && now - s.lastSeen > idleMs + refreshMs) {
       return req.session.destroy(() => next(new AppError(401, 'session_expired', `you were signed out after ${config.IDLE_MINUTES} minutes without activity`, { hint: 'sign in again' })));
     }
-    if (s?.passport) s.lastSeen = Date.now();
+    if (s?.passport && (!s.lastSeen || now - s.lastSeen >= refreshMs)) s.lastSeen = now;
     next();
   });
   const passport = configurePassport(context);

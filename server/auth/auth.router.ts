@@ -9,7 +9,7 @@ import { LoginSchema, PasswordResetConfirmSchema, PasswordResetRequestSchema, To
 import { generateToken } from './csrf.js';
 import { assertPasswordPolicy, hashPassword } from './passwords.js';
 import { consumeToken, issueToken } from './tokens.js';
-import { loadSessionUser } from './session-user.js';
+import { forgetSessionUser, loadSessionUser } from './session-user.js';
 import { appUrl } from '../http/app-url.js';
 
 const a = area('/api/auth');
@@ -91,6 +91,7 @@ a.post('/totp/setup', 'signed-in', async (req) => {
   const { ds } = ctx(req);
   const secret = authenticator.generateSecret();
   await ds.query(`UPDATE users SET totp_secret = $2, totp_enabled = false WHERE id = $1`, [user.id, secret]);
+  forgetSessionUser(ds, user.id);
   return { secret, otpauthUrl: authenticator.keyuri(user.email, 'Alveolog', secret) };
 });
 
@@ -104,6 +105,7 @@ a.post('/totp/confirm', 'signed-in', async (req) => {
     throw new AppError(400, 'totp_wrong_code', 'that code does not match', { hint: 'check the time on your phone and type the code shown now', fields: [{ path: 'code', message: 'does not match' }] });
   }
   await ds.query(`UPDATE users SET totp_enabled = true WHERE id = $1`, [user.id]);
+  forgetSessionUser(ds, user.id);
   await audit(ds, { action: 'totp-enabled', ...actor(req), entity: 'user', entityId: user.id });
   const fresh = await loadSessionUser(ds, user.id, config.DEMO_MODE);
   return me(req, fresh!);

@@ -3,7 +3,7 @@ import { Strategy as LocalStrategy } from 'passport-local';
 import { authenticator } from 'otplib';
 import type { AppContext } from '../context.js';
 import { audit } from '../audit/audit.service.js';
-import { loadSessionUser } from './session-user.js';
+import { cachedSessionUser, loadSessionUser } from './session-user.js';
 import { verifyPassword } from './passwords.js';
 import { AppError } from '../http/errors.js';
 
@@ -68,7 +68,7 @@ export function configurePassport(app: AppContext): passport.PassportStatic {
   instance.serializeUser((user, done) => done(null, (user as { id: string }).id));
   instance.deserializeUser(async (id: string, done) => {
     try {
-      done(null, (await loadSessionUser(ds, id, config.DEMO_MODE)) ?? false);
+      done(null, (await cachedSessionUser(ds, id, config.DEMO_MODE, config.SESSION_USER_CACHE_MS)) ?? false);
     } catch (err) {
       done(err);
     }

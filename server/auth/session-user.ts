@@ -25,3 +25,33 @@ export async function loadSessionUser(ds: DataSource, id: string, demoMode: bool
     mustEnrollTotp: roles.includes('admin') && !u.totp_enabled && !demoMode,
   };
 }
+
+/**
+ * Signed-in users as loaded above, kept for a few seconds per database (tests run several apps
+ * on cloned databases with the same user ids). The lookup ran on every request; under load it
+ * was a fifth of the database round trips. Every change the application makes to a user's
+ * roles, sites, activity or second factor calls `forgetSessionUser`, so in this process a change
+ * applies at once; `ttlMs` bounds how long another process (or `npm run create-admin`) can see
+ * the old values.
+ */
+const caches = new WeakMap<object, Map<string, { user: SessionUser | null; at: number }>>();
+
+export async function cachedSessionUser(ds: DataSource, id: string, demoMode: boolean, ttlMs: number): Promise<SessionUser | null> {
+  let cache = caches.get(ds);
+  if (!cache) caches.set(ds, (cache = new Map()));
+  const hit = cache.get(id);
+  const now = Date.now();
+  if (hit && now - hit.at < ttlMs) return hit.user;
+  const user = await loadSessionUser(ds, id, demoMode);
+  if (cache.size > 10_000) cache.clear(); // a bound, far above the number of staff signed in at once
+  if (ttlMs > 0) cache.set(id, { user, at: now });
+  return user;
+}
+
+/** Drops a user's cached entry (after any change to them); without an id, every entry. */
+export function forgetSessionUser(ds: DataSource, id?: string): void {
+  const cache = caches.get(ds);
+  if (!cache) return;
+  if (id) cache.delete(id);
+  else cache.clear();
+}

@@ -187,6 +187,8 @@ export function cluster({ name, port, fast = false, noInit = false }) {
     }
     const opts = [`-p ${port}`, `-k ${sock}`, "-c listen_addresses=127.0.0.1", '-c max_connections=200', '-c shared_buffers=256MB'];
     if (fast) opts.push('-c fsync=off', '-c synchronous_commit=off', '-c full_page_writes=off');
+    // Extra server settings for a diagnosis, e.g. ALVEOLOG_PG_OPTIONS="-c shared_preload_libraries=pg_stat_statements".
+    if (process.env.ALVEOLOG_PG_OPTIONS) opts.push(process.env.ALVEOLOG_PG_OPTIONS);
     asPg(path.join(bin, 'pg_ctl'), ['-D', data, '-l', path.join(data, 'server.log'), '-w', '-t', '60', '-o', opts.join(' '), 'start'], { quiet: true });
     log(`PostgreSQL '${name}' started on 127.0.0.1:${port}`);
     return { created, startedHere: true };

@@ -9,7 +9,9 @@ const port = Number(process.env.LOAD_PORT ?? 3990);
 const serverEnv = { ...env, PORT: String(port), APP_URL: `http://127.0.0.1:${port}`, LOGIN_RATE_LIMIT: '100000', LOG_LEVEL: 'warn', SMTP_PORT: String(port + 2000) };
 runTs('server/db/setup.ts', serverEnv);
 if (clientIsStale()) buildClient();
-const server = spawn(process.execPath, ['--import', 'tsx', path.join(ROOT, 'server/main.ts')], { cwd: ROOT, env: { ...process.env, ...serverEnv }, stdio: 'inherit' });
+// LOAD_CPU_PROFILE=DIR writes a V8 CPU profile of the server (open it in Chrome's DevTools).
+const profile = process.env.LOAD_CPU_PROFILE ? ['--cpu-prof', `--cpu-prof-dir=${path.resolve(process.env.LOAD_CPU_PROFILE)}`] : [];
+const server = spawn(process.execPath, [...profile, '--import', 'tsx', path.join(ROOT, 'server/main.ts')], { cwd: ROOT, env: { ...process.env, ...serverEnv }, stdio: 'inherit' });
 const stop = (code) => { server.kill('SIGTERM'); setTimeout(() => { if (startedHere) pg.stop(); process.exit(code); }, 1500); };
 try {
   for (let i = 0; i < 120; i++) {

@@ -29,14 +29,18 @@ function whereClause(q: CaseListQuery, user: SessionUser): { sql: string; params
     params.push(v);
     return `$${params.length}`;
   };
+  // One value is written as `=`, not `= ANY(...)`: before PostgreSQL 17 an index scan cannot
+  // return rows in index order past an = ANY on a leading column, so a sorted page would sort.
+  const oneOf = (col: string, values: readonly string[], type: 'uuid' | 'text') =>
+    values.length === 1 ? `${col} = ${p(values[0])}::${type}` : `${col} = ANY(${p(values)}::${type}[])`;
   const w: string[] = [];
   const scope = caseSiteScope(user);
-  if (scope) w.push(`c.site_id = ANY(${p(scope)}::uuid[])`);
-  if (q.siteId) w.push(`c.site_id = ANY(${p(q.siteId)}::uuid[])`);
+  if (scope) w.push(oneOf('c.site_id', scope, 'uuid'));
+  if (q.siteId) w.push(oneOf('c.site_id', q.siteId, 'uuid'));
   if (q.surgeryFrom) w.push(`c.surgery_date >= ${p(q.surgeryFrom)}`);
   if (q.surgeryTo) w.push(`c.surgery_date <= ${p(q.surgeryTo)}`);
-  if (q.status) w.push(`c.status = ANY(${p(q.status)}::text[])`);
-  if (q.procedureCategory) w.push(`c.procedure_category = ANY(${p(q.procedureCategory)}::text[])`);
+  if (q.status) w.push(oneOf('c.status', q.status, 'text'));
+  if (q.procedureCategory) w.push(oneOf('c.procedure_category', q.procedureCategory, 'text'));
   if (q.riskClass) {
     const classes = q.riskClass.filter((r) => r !== 'unscored');
     const parts = [];
@@ -80,29 +84,29 @@ export async function listCases(ds: DataSource, q: CaseListQuery, user: SessionU
   const nullable = ['ariscatPoints', 'procedureCategory', 'age'].includes(sort.field);
   const order = `${SORT_SQL[sort.field] ?? 'c.surgery_date'} ${sort.direction}${nullable ? ' NULLS LAST' : ''}, c.id ${sort.direction}`;
   const n = where.params.length;
-  // The page's ids first (an index walk with OFFSET), then the columns and the per-case event
-  // list for those rows only: a select-list subquery below OFFSET would run for every skipped row.
+  // The page's ids first (an index walk with OFFSET), then the columns, the per-case event list
+  // and the completeness flag (kept in the fact table by the registry's triggers) for those
+  // rows only: a select-list subquery below OFFSET would run for every skipped row.
   // The total (an exact count, or the planner's estimate above ESTIMATE_ABOVE rows) runs alongside.
   const [rows, total] = await Promise.all([
     ds.query(
       `WITH page AS (SELECT c.id FROM surgical_cases c ${where.sql} ORDER BY ${order} LIMIT $${n + 1} OFFSET $${n + 2})
        SELECT c.id, c.registry_number, c.site_id, s.code AS site_code, u.code AS unit_code, c.status, c.surgery_date::text AS surgery_date,
               c.procedure_category, c.age, c.ariscat_points, c.ariscat_class, c.version, c.updated_at,
-              ARRAY(SELECT DISTINCT o.type FROM outcome_events o WHERE o.case_id = c.id AND o.removed_at IS NULL ORDER BY o.type) AS event_types
+              ARRAY(SELECT DISTINCT o.type FROM outcome_events o WHERE o.case_id = c.id AND o.removed_at IS NULL ORDER BY o.type) AS event_types,
+              coalesce(f.complete, false) AS complete
          FROM page JOIN surgical_cases c ON c.id = page.id JOIN sites s ON s.id = c.site_id LEFT JOIN units u ON u.id = c.unit_id
+         LEFT JOIN analysis_case_facts f ON f.case_id = c.id
         ORDER BY ${order}`,
       [...where.params, q.pageSize, (q.page - 1) * q.pageSize],
     ),
     listTotal(ds, where),
   ]);
-  const ids = rows.map((r: { id: string }) => r.id);
-  const completeRows: { case_id: string; complete: boolean }[] = ids.length ? await ds.query(`SELECT case_id, complete FROM case_completeness WHERE case_id = ANY($1::uuid[])`, [ids]) : [];
-  const complete = new Map(completeRows.map((r) => [r.case_id, r.complete]));
   const items: CaseListItem[] = rows.map((r: Record<string, any>) => ({
     id: r.id, registryNumber: r.registry_number, siteId: r.site_id, siteCode: r.site_code, unitCode: r.unit_code, status: r.status, surgeryDate: r.surgery_date,
     procedureCategory: r.procedure_category, age: r.age, ariscatPoints: r.ariscat_points, ariscatClass: r.ariscat_class,
     anyPpc: (r.event_types as string[]).some((t) => (ANY_PPC_COMPONENTS as readonly string[]).includes(t)), eventTypes: r.event_types,
-    complete: complete.get(r.id) ?? false, version: r.version, updatedAt: new Date(r.updated_at).toISOString(),
+    complete: r.complete, version: r.version, updatedAt: new Date(r.updated_at).toISOString(),
   }));
   return { items, total: total.total, totalIsEstimate: total.estimate, page: q.page, pageSize: q.pageSize };
 }

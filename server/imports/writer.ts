@@ -16,6 +16,9 @@ import { CASE_COLUMNS, THERAPY_COLUMNS } from '../registry/columns.js';
 import { formatRegistryNumber, nextRegistryNumber, storedValue } from '../cases/case.repo.js';
 import type { Plan, PlanUser } from './plan.js';
 
+/** From this many rows an import refreshes the analysis tables set-wise (see writePlan). */
+export const BULK_REFRESH_ROWS = 200;
+
 export interface WriteResult { casesCreated: number; casesUpdated: number; therapyAdded: number; outcomesAdded: number; skipped: number; written: number; registryNumbers: { row: number; registryNumber: string }[] }
 
 async function insertRows(tx: EntityManager, table: string, columns: readonly string[], rows: readonly unknown[][]): Promise<void> {
@@ -73,6 +76,11 @@ export async function writePlan(
   let skipped = 0;
   const base = { actorId: user.id, actorEmail: user.email, ip: null, entity: 'case' };
   const result: WriteResult = { casesCreated: 0, casesUpdated: 0, therapyAdded: 0, outcomesAdded: 0, skipped: 0, written: 0, registryNumbers: [] };
+  // A large import skips the analysis row triggers (a round of them per case, episode and event)
+  // and refreshes the fact rows and roll-ups of every touched case set-wise at the end, still
+  // inside the transaction; a small one keeps the triggers, which are cheaper for a few rows.
+  const bulk = plan.cases.length + plan.therapy.length + plan.outcomes.length >= BULK_REFRESH_ROWS;
+  if (bulk) await tx.query(`SELECT set_config('alveolog.analysis_bulk', 'on', true)`);
 
   // --- New cases -------------------------------------------------------------------------
   const fresh = plan.cases.map((c, i) => ({ c, i })).filter((x) => x.c.action === 'new');
@@ -80,7 +88,11 @@ export async function writePlan(
   plan.cases.forEach((c, i) => { if (c.existing) caseIds.set(i, c.existing.id); });
   const numbers = new Map<number, string>();
   const bySite = new Map<string, typeof fresh>();
-  for (const x of fresh) bySite.set(x.c.siteId, [...(bySite.get(x.c.siteId) ?? []), x]);
+  for (const x of fresh) {
+    const list = bySite.get(x.c.siteId);
+    if (list) list.push(x);
+    else bySite.set(x.c.siteId, [x]);
+  }
   for (const list of bySite.values()) {
     const nums = await allocateNumbers(tx, list[0].c.siteId, list[0].c.siteCode, opts.year, list.length);
     list.forEach((x, k) => numbers.set(x.i, nums[k]));
@@ -210,6 +222,11 @@ export async function writePlan(
       [chunk, user.id],
     );
     if (verified.length) await audit(tx, verified.map((r) => ({ ...base, action: 'status-changed', entityId: r.id, field: 'status', oldValue: 'verified', newValue: 'complete', reason: 'changed by an import after verification: needs verifying again', details: { importId } })));
+  }
+  if (bulk) {
+    const refresh = [...new Set([...caseIds.values(), ...touched])];
+    for (let s = 0; s < refresh.length; s += 20_000) await tx.query(`SELECT analysis_refresh_cases($1::uuid[])`, [refresh.slice(s, s + 20_000)]);
+    await tx.query(`SELECT set_config('alveolog.analysis_bulk', 'off', true)`);
   }
   result.skipped = skipped;
   result.written = written;

@@ -131,18 +131,21 @@ export function periodsFromRows(m: MeasureDefinition, months: string[], view: 'm
 }
 
 export async function measureChart(ds: DataSource, key: MeasureKey, q: ChartQuery, c: ChartContext): Promise<ChartResponse> {
-  const settings = (await measureSettings(ds)).get(key)!;
+  // Independent reads at once: each sequential round trip waits its turn under load.
+  const [all, closed, label, annotations] = await Promise.all([measureSettings(ds), closedMonths(ds), siteLabel(ds, q.site), annotationsFor(ds, q.site)]);
+  const settings = all.get(key)!;
   const months = await chartMonths(ds, settings, q, c);
-  const closed = await closedMonths(ds);
   const periods = await measurePeriods(ds, measureByKey(key), q.site, months, q.view, closed);
-  return chartFromPeriods(ds, key, q, settings, periods);
+  return chartFromPeriods(ds, key, q, settings, periods, { label, annotations });
 }
 
 /** The chart of already-read periods (the packet and the signal e-mails read the inputs once for every measure). */
-export async function chartFromPeriods(ds: DataSource, key: MeasureKey, q: ChartQuery, settings: MeasureSettings, periods: PeriodInput[]): Promise<ChartResponse> {
+export async function chartFromPeriods(
+  ds: DataSource, key: MeasureKey, q: ChartQuery, settings: MeasureSettings, periods: PeriodInput[],
+  read?: { label: Awaited<ReturnType<typeof siteLabel>>; annotations: Awaited<ReturnType<typeof annotationsFor>> },
+): Promise<ChartResponse> {
   const m = measureByKey(key);
-  const label = await siteLabel(ds, q.site);
-  const annotations = await annotationsFor(ds, q.site);
+  const [label, annotations] = read ? [read.label, read.annotations] : await Promise.all([siteLabel(ds, q.site), annotationsFor(ds, q.site)]);
   const annotated = new Set(annotations.map((a) => a.month));
   const bad = q.rebase.filter((r) => !annotated.has(r));
   if (bad.length) {

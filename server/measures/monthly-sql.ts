@@ -63,16 +63,12 @@ SELECT f.site_id AS "siteId", to_char(f.month, 'YYYY-MM-DD') AS month, f.los::in
  */
 export async function monthlyInputs(db: DataSource | EntityManager, fromMonth: string, toMonthExclusive: string, siteIds: readonly string[] | null = null): Promise<MonthlyInputs[]> {
   const params = [fromMonth, toMonthExclusive, siteIds ? [...siteIds] : null];
-  // JIT off: the planner over-estimates these small aggregates and would spend ~100 ms
-  // compiling them (seen in EXPLAIN ANALYZE on the 1M-case bench). One after the other: inside
-  // a transaction both share one connection.
-  const run = async (q: DataSource | EntityManager) => {
-    await q.query(`SET LOCAL jit = off`);
-    return { rows: await q.query(INPUT_SQL, params), los: await q.query(LOS_SQL, params) };
-  };
-  const { rows, los } = 'transaction' in db && !(db as EntityManager).queryRunner?.isTransactionActive
-    ? await (db as DataSource).transaction((tx) => run(tx))
-    : await run(db);
+  // Both aggregates at once on a DataSource (two pool connections); one after the other inside a
+  // transaction, which has one connection. (JIT is off on every connection: create-data-source.ts.)
+  const inTx = !('transaction' in db) || !!(db as EntityManager).queryRunner?.isTransactionActive;
+  const [rows, los] = inTx
+    ? [await db.query(INPUT_SQL, params), await db.query(LOS_SQL, params)]
+    : await Promise.all([db.query(INPUT_SQL, params), db.query(LOS_SQL, params)]);
   const freq = new Map<string, [number, number][]>();
   for (const r of los as { siteId: string; month: string; los: number; n: number }[]) {
     const k = `${r.siteId}|${r.month}`;

@@ -39,20 +39,23 @@ export const ROLLUP_SELECT_SQL = `SELECT site_id AS "siteId", to_char(month, 'YY
   FROM committee_month_rollups WHERE month = ANY($1::date[]) AND ($2::uuid[] IS NULL OR site_id = ANY($2::uuid[]))`;
 
 export async function readMonthly(db: DataSource, from: string, to: string, closed: ReadonlySet<string>, siteIds: readonly string[] | null): Promise<MonthlyInputs[]> {
-  const frozen: MonthlyInputs[] = closed.size
-    ? await db.query(ROLLUP_SELECT_SQL, [[...closed].filter((m) => m >= from && m <= to).map(monthStart), siteIds ? [...siteIds] : null])
-    : [];
   // Open months, in contiguous stretches, live from the registry.
-  const live: MonthlyInputs[] = [];
+  const stretches: [string, string][] = [];
   let start: string | null = null;
   for (let m = from; ; m = addMonths(m, 1)) {
     const open = m <= to && !closed.has(m);
     if (open && start === null) start = m;
     if (!open && start !== null) {
-      live.push(...(await monthlyInputs(db, monthStart(start), monthStart(m), siteIds)));
+      stretches.push([monthStart(start), monthStart(m)]);
       start = null;
     }
     if (m > to) break;
   }
-  return [...frozen, ...live].map((r) => ({ ...r, month: toMonth(r.month) }));
+  const frozenMonths = [...closed].filter((m) => m >= from && m <= to).map(monthStart);
+  // The roll-up rows and the live stretches are independent reads: at once.
+  const [frozen, ...live] = await Promise.all([
+    frozenMonths.length ? (db.query(ROLLUP_SELECT_SQL, [frozenMonths, siteIds ? [...siteIds] : null]) as Promise<MonthlyInputs[]>) : Promise.resolve([] as MonthlyInputs[]),
+    ...stretches.map(([a, b]) => monthlyInputs(db, a, b, siteIds)),
+  ]);
+  return [...frozen, ...live.flat()].map((r) => ({ ...r, month: toMonth(r.month) }));
 }

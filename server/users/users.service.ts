@@ -1,6 +1,7 @@
 import type { DataSource } from 'typeorm';
 import type { User, UserCreate, UserUpdate } from '../../shared/auth/user.js';
 import { AppError, notFound } from '../http/errors.js';
+import { forgetSessionUser } from '../auth/session-user.js';
 
 const SELECT = `SELECT u.id, u.email, u.display_name, u.roles, u.is_chair, u.active, u.totp_enabled, u.locked_until, u.created_at,
        u.password_hash IS NULL AS invite_pending,
@@ -58,5 +59,6 @@ export async function updateUser(ds: DataSource, id: string, input: UserUpdate):
     // A deactivated user is signed out everywhere at once.
     if (input.active === false) await tx.query(`DELETE FROM session WHERE sess->'passport'->>'user' = $1`, [id]);
   });
+  forgetSessionUser(ds, id);
   return { before, after: await getUser(ds, id) };
 }

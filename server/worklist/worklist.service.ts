@@ -29,35 +29,35 @@ export async function buildWorklist(c: Ctx, user: SessionUser, q: WorklistQuery)
 
   // count(*) OVER () is computed before LIMIT: the bucket's total in the same query.
   const bucket = async (from: string, cond: string, order: string, extraCols = '', extraParams: unknown[] = []) => {
-    const rows: Record<string, any>[] = await c.ds.transaction(async (tx) => {
-      // JIT compilation of the completeness expressions costs seconds and saves nothing on
-      // an interactive list (PostgreSQL's jit is meant for long analytical queries).
-      await tx.query(`SET LOCAL jit = off`);
-      return tx.query(`${BASE}${extraCols}, count(*) OVER () AS total_count ${from} WHERE ${cond}${scoped} ORDER BY ${order} LIMIT ${lim}`, [...params, ...extraParams]);
-    });
+    const rows: Record<string, any>[] = await c.ds.query(`${BASE}${extraCols}, count(*) OVER () AS total_count ${from} WHERE ${cond}${scoped} ORDER BY ${order} LIMIT ${lim}`, [...params, ...extraParams]);
     return { rows, total: rows.length ? Number(rows[0].total_count) : 0 };
   };
 
   const fromCases = `FROM surgical_cases c JOIN sites s ON s.id = c.site_id`;
-  // The completeness view is computed for the scoped draft and complete cases first
-  // (MATERIALIZED), paged on its own surgery date, and only the page joined to the cases.
-  const missingRows: Record<string, any>[] = await c.ds.transaction(async (tx) => {
-    await tx.query(`SET LOCAL jit = off`);
-    return tx.query(
-      `WITH m AS MATERIALIZED (SELECT cc.case_id, cc.missing, cc.surgery_date FROM case_completeness cc
-                                 WHERE cc.status IN ('draft', 'complete') AND NOT cc.complete${scoped.replaceAll('c.site_id', 'cc.site_id')}),
-            page AS (SELECT m.*, count(*) OVER () AS total_count FROM m ORDER BY m.surgery_date, m.case_id LIMIT ${lim})
-       ${BASE}, page.missing, page.total_count FROM page JOIN surgical_cases c ON c.id = page.case_id JOIN sites s ON s.id = c.site_id
+  // Incomplete open cases are found through the fact table's `complete` flag (kept by the
+  // registry's triggers, partial index on surgery date); the completeness view, which lists the
+  // missing fields, is computed for the page's rows only.
+  const missingList = async () => {
+    const rows: Record<string, any>[] = await c.ds.query(
+      `WITH page AS (SELECT f.case_id, f.surgery_date, count(*) OVER () AS total_count FROM analysis_case_facts f
+                      WHERE NOT f.complete AND f.status IN (1, 2)${scoped.replaceAll('c.site_id', 'f.site_id')}
+                      ORDER BY f.surgery_date, f.case_id LIMIT ${lim})
+       ${BASE}, cc.missing, page.total_count FROM page JOIN surgical_cases c ON c.id = page.case_id JOIN sites s ON s.id = c.site_id
+         JOIN case_completeness cc ON cc.case_id = page.case_id
         WHERE $1::date IS NOT NULL ORDER BY page.surgery_date, page.case_id`,
       params,
     );
-  });
-  const missing = { rows: missingRows, total: missingRows.length ? Number(missingRows[0].total_count) : 0 };
-  const due = await bucket(fromCases, `${open} AND c.surgery_date BETWEEN $1::date - ${FOLLOW_UP_DAYS} AND $1::date - ${FOLLOW_UP_DAYS} + ${q.dueWithinDays}`, 'c.surgery_date, c.id');
-  const overdue = await bucket(fromCases, `${open} AND c.surgery_date < $1::date - ${FOLLOW_UP_DAYS}`, 'c.surgery_date, c.id');
-  const waiting = await bucket(fromCases,
-    `c.status = 'complete' AND c.created_by IS DISTINCT FROM $${params.length + 1}::uuid AND NOT ($${params.length + 1}::uuid = ANY(c.editors_since_verification)) AND $1::date IS NOT NULL`,
-    'c.completed_at NULLS FIRST, c.id', `, ($1::date - (c.completed_at AT TIME ZONE '${c.timeZone.replace(/'/g, '')}')::date) AS waiting_days`, [user.id]);
+    return { rows, total: rows.length ? Number(rows[0].total_count) : 0 };
+  };
+  // The four lists are independent reads: at once, on four pool connections.
+  const [missing, due, overdue, waiting] = await Promise.all([
+    missingList(),
+    bucket(fromCases, `${open} AND c.surgery_date BETWEEN $1::date - ${FOLLOW_UP_DAYS} AND $1::date - ${FOLLOW_UP_DAYS} + ${q.dueWithinDays}`, 'c.surgery_date, c.id'),
+    bucket(fromCases, `${open} AND c.surgery_date < $1::date - ${FOLLOW_UP_DAYS}`, 'c.surgery_date, c.id'),
+    bucket(fromCases,
+      `c.status = 'complete' AND c.created_by IS DISTINCT FROM $${params.length + 1}::uuid AND NOT ($${params.length + 1}::uuid = ANY(c.editors_since_verification)) AND $1::date IS NOT NULL`,
+      'c.completed_at NULLS FIRST, c.id', `, ($1::date - (c.completed_at AT TIME ZONE '${c.timeZone.replace(/'/g, '')}')::date) AS waiting_days`, [user.id]),
+  ]);
 
   const dayDiff = (a: string, b: string) => Math.round((Date.parse(a) - Date.parse(b)) / 86_400_000);
   return {

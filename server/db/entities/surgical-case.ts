@@ -23,6 +23,7 @@ import type { Unit } from './unit.js';
 @Index('IDX_cases_registry_number_pattern', { synchronize: false })
 @Index('IDX_cases_identifier_hash', { synchronize: false })
 @Index('IDX_cases_followup_open', { synchronize: false })
+@Index('IDX_cases_site_status_ariscat', { synchronize: false })
 export class SurgicalCase {
   @PrimaryGeneratedColumn('uuid') id: string;
   @Column({ type: 'text', name: 'registry_number', unique: true }) registryNumber: string;
