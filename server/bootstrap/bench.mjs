@@ -5,7 +5,7 @@
 import { spawnSync } from 'node:child_process';
 import fs from 'node:fs';
 import path from 'node:path';
-import { ROOT, log, ensureNodeModules, cluster } from './lib.mjs';
+import { ROOT, log, ensureNodeModules, cluster, SERVER_NODE_FLAGS } from './lib.mjs';
 
 ensureNodeModules();
 const pg = cluster({ name: 'test', port: Number(process.env.ALVEOLOG_TEST_PG_PORT ?? 54329), fast: true });
@@ -20,7 +20,10 @@ let failed = 0;
 for (const f of files) {
   log(`bench: ${f}`);
   const t = Date.now();
-  const r = spawnSync(process.execPath, ['--import', 'tsx', path.join(dir, 'harness.ts'), path.join(dir, f)], { cwd: ROOT, stdio: 'inherit', env: process.env });
+  // The app runs inside the harness, so the harness gets the server's V8 flags; NODE_OPTIONS
+  // passes them on to the processes it starts (the export worker).
+  const env = { ...process.env, NODE_OPTIONS: [process.env.NODE_OPTIONS, ...SERVER_NODE_FLAGS].filter(Boolean).join(' ') };
+  const r = spawnSync(process.execPath, ['--import', 'tsx', path.join(dir, 'harness.ts'), path.join(dir, f)], { cwd: ROOT, stdio: 'inherit', env });
   log(`${r.status === 0 ? 'done' : 'FAILED'}: ${f} (${((Date.now() - t) / 1000).toFixed(1)} s)`);
   if (r.status !== 0) failed++;
 }

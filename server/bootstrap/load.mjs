@@ -1,7 +1,7 @@
 // `npm run load`: a bounded mixed read/write load on loopback against the demo data (autocannon).
 import { spawn } from 'node:child_process';
 import path from 'node:path';
-import { ROOT, fail, runTs, clientIsStale, buildClient } from './lib.mjs';
+import { ROOT, fail, runTs, clientIsStale, buildClient, SERVER_NODE_FLAGS } from './lib.mjs';
 import { prepareMain } from './main-env.mjs';
 
 const { pg, env, startedHere } = prepareMain();
@@ -11,7 +11,7 @@ runTs('server/db/setup.ts', serverEnv);
 if (clientIsStale()) buildClient();
 // LOAD_CPU_PROFILE=DIR writes a V8 CPU profile of the server (open it in Chrome's DevTools).
 const profile = process.env.LOAD_CPU_PROFILE ? ['--cpu-prof', `--cpu-prof-dir=${path.resolve(process.env.LOAD_CPU_PROFILE)}`] : [];
-const server = spawn(process.execPath, [...profile, '--import', 'tsx', path.join(ROOT, 'server/main.ts')], { cwd: ROOT, env: { ...process.env, ...serverEnv }, stdio: 'inherit' });
+const server = spawn(process.execPath, [...SERVER_NODE_FLAGS, ...profile, '--import', 'tsx', path.join(ROOT, 'server/main.ts')], { cwd: ROOT, env: { ...process.env, ...serverEnv }, stdio: 'inherit' });
 const stop = (code) => { server.kill('SIGTERM'); setTimeout(() => { if (startedHere) pg.stop(); process.exit(code); }, 1500); };
 try {
   for (let i = 0; i < 120; i++) {
