@@ -1,9 +1,11 @@
 /** Expired export files are deleted on a schedule; each deletion is audited (the request row stays). */
-import { rm } from 'node:fs/promises';
+import { readdir, rm, stat } from 'node:fs/promises';
+import { join } from 'node:path';
 import { audit } from '../audit/audit.service.js';
 import type { AppContext } from '../context.js';
 import { logger } from '../logger.js';
 import { registerSchedule } from '../jobs/registry.js';
+import { exportDir } from './generate.js';
 
 /** Deletes every export file past its expiry; returns how many were deleted. */
 export async function deleteExpiredExports(context: AppContext, now = new Date()): Promise<number> {
@@ -30,3 +32,33 @@ export async function deleteExpiredExports(context: AppContext, now = new Date()
 }
 
 registerSchedule({ name: 'export-retention', everyMs: 10 * 60_000, run: async (context) => { await deleteExpiredExports(context); } });
+
+/**
+ * Deletes half-written export files (`<request id>.<ext>.part`) left by a generation that did
+ * not finish (a crash, a killed server) once they are older than `minAgeMs` and their request
+ * is no longer generating; returns how many were deleted. A retry writes a new one.
+ */
+export async function deleteAbandonedParts(context: AppContext, now = Date.now(), minAgeMs = 60 * 60_000): Promise<number> {
+  const dir = exportDir(context);
+  let names: string[];
+  try {
+    names = (await readdir(dir)).filter((n) => n.endsWith('.part'));
+  } catch {
+    return 0; // no export folder yet
+  }
+  let n = 0;
+  for (const name of names) {
+    const id = name.split('.')[0];
+    const path = join(dir, name);
+    const info = await stat(path).catch(() => null);
+    if (!info || now - info.mtimeMs < minAgeMs) continue;
+    const [row] = /^[0-9a-f-]{36}$/.test(id) ? await context.ds.query(`SELECT status FROM export_requests WHERE id = $1`, [id]) : [];
+    if (row?.status === 'generating') continue;
+    await rm(path, { force: true });
+    await audit(context.ds, { action: 'export-part-deleted', entity: 'export_request', entityId: row ? id : null, details: { file: name, reason: 'half-written file of a generation that did not finish' } });
+    n += 1;
+  }
+  return n;
+}
+
+registerSchedule({ name: 'export-abandoned-parts', everyMs: 30 * 60_000, run: async (context) => { await deleteAbandonedParts(context); } });
