@@ -34,29 +34,34 @@ export function chiSquareQuantile(p: number, dof: number): number {
   return jStat.chisquare.inv(p, dof);
 }
 
+/** Relative size below which a binomial term is dropped: far under double precision of the sum (>= 1). */
+const NEGLIGIBLE = 1e-300;
+
 /**
- * Probabilities P(X = k), k = 0..n, of Binomial(n, prob), as an array of n + 1 values.
- * Terms far in the tails may underflow to 0, which is their value to double precision.
+ * Probabilities P(X = k) of Binomial(n, prob) over the window [lo, lo + length - 1] outside
+ * which every term is below 1e-300 of the mode's (0 to double precision once normalised).
+ * Computed by the ratio recurrence outwards from the mode, so a size of 200,000 costs the few
+ * thousand terms around its mean rather than 200,001 (the funnel plot asks for many sizes).
  */
-export function binomialPmf(n: number, prob: number): Float64Array {
-  const out = new Float64Array(n + 1);
-  if (prob <= 0) {
-    out[0] = 1;
-    return out;
-  }
-  if (prob >= 1) {
-    out[n] = 1;
-    return out;
-  }
+export function binomialPmf(n: number, prob: number): { lo: number; probabilities: Float64Array } {
+  if (prob <= 0) return { lo: 0, probabilities: Float64Array.of(1) };
+  if (prob >= 1) return { lo: n, probabilities: Float64Array.of(1) };
   const mode = Math.min(n, Math.floor((n + 1) * prob));
   const odds = prob / (1 - prob);
-  out[mode] = 1;
-  for (let k = mode; k < n; k += 1) out[k + 1] = (out[k] * ((n - k) / (k + 1))) * odds;
-  for (let k = mode; k > 0; k -= 1) out[k - 1] = (out[k] * (k / (n - k + 1))) / odds;
+  const up = (k: number, v: number) => (v * ((n - k) / (k + 1))) * odds; // P(k + 1) from P(k)
+  const down = (k: number, v: number) => (v * (k / (n - k + 1))) / odds; // P(k - 1) from P(k)
+  let hi = mode;
+  for (let v = 1; hi < n; hi += 1) { v = up(hi, v); if (v < NEGLIGIBLE) break; }
+  let lo = mode;
+  for (let v = 1; lo > 0; lo -= 1) { v = down(lo, v); if (v < NEGLIGIBLE) break; }
+  const out = new Float64Array(hi - lo + 1);
+  out[mode - lo] = 1;
+  for (let k = mode; k < hi; k += 1) out[k + 1 - lo] = up(k, out[k - lo]);
+  for (let k = mode; k > lo; k -= 1) out[k - 1 - lo] = down(k, out[k - lo]);
   let sum = 0;
-  for (let k = 0; k <= n; k += 1) sum += out[k];
-  for (let k = 0; k <= n; k += 1) out[k] /= sum;
-  return out;
+  for (let i = 0; i < out.length; i += 1) sum += out[i];
+  for (let i = 0; i < out.length; i += 1) out[i] /= sum;
+  return { lo, probabilities: out };
 }
 
 /**
@@ -64,12 +69,12 @@ export function binomialPmf(n: number, prob: number): Float64Array {
  * (p * (1 - 64 * machine epsilon)) so that rounding in the sum does not push x one up.
  */
 export function binomialQuantile(p: number, n: number, prob: number): number {
-  const pmf = binomialPmf(n, prob);
+  const { lo, probabilities } = binomialPmf(n, prob);
   const target = p * (1 - 64 * Number.EPSILON);
   let cdf = 0;
-  for (let k = 0; k <= n; k += 1) {
-    cdf += pmf[k];
-    if (cdf >= target) return k;
+  for (let i = 0; i < probabilities.length; i += 1) {
+    cdf += probabilities[i];
+    if (cdf >= target) return lo + i;
   }
   return n;
 }

@@ -42,20 +42,21 @@ export function funnelLimits(
   return ns.map((n) => {
     const hit = cache.get(n);
     if (hit) return { size: n, limits: hit.limits.map((l) => ({ ...l })) };
-    const pmf = binomialPmf(n, theta);
-    const cdf = new Float64Array(n + 1);
+    // The window holds every term that is not 0 to double precision; below it P(R <= r) is 0.
+    const { lo, probabilities: pmf } = binomialPmf(n, theta);
+    const cdf = new Float64Array(pmf.length);
     let run = 0;
-    for (let k = 0; k <= n; k += 1) {
-      run += pmf[k];
-      cdf[k] = run;
+    for (let i = 0; i < pmf.length; i += 1) {
+      run += pmf[i];
+      cdf[i] = run;
     }
     const limit = (p: number): number => {
       if (theta === 0 || theta === 1) return theta;
       const fuzz = p * (1 - 64 * Number.EPSILON);
-      let r = 0;
-      while (r < n && cdf[r] < fuzz) r += 1;
-      const alpha = pmf[r] > 0 ? (cdf[r] - p) / pmf[r] : 0;
-      return Math.min(1, Math.max(0, (r - alpha) / n));
+      let i = 0;
+      while (i < pmf.length - 1 && cdf[i] < fuzz) i += 1;
+      const alpha = pmf[i] > 0 ? (cdf[i] - p) / pmf[i] : 0;
+      return Math.min(1, Math.max(0, (lo + i - alpha) / n));
     };
     const point = { size: n, limits: levels.map((l) => ({ level: l, lower: limit((1 - l) / 2), upper: limit((1 + l) / 2) })) };
     cache.set(n, point);

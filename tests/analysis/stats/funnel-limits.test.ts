@@ -1,3 +1,5 @@
+import binomialCdf from '@stdlib/stats-base-dists-binomial-cdf';
+import binomialPmf from '@stdlib/stats-base-dists-binomial-pmf';
 import normalQuantile from '@stdlib/stats-base-dists-normal-quantile';
 import fc from 'fast-check';
 import { describe, expect, it } from 'vitest';
@@ -54,6 +56,26 @@ describe('funnelLimits', () => {
   });
 
   describe('when the unit is large', () => {
+    // Sites of a network hold up to a few hundred thousand cases; the same definition with
+    // @stdlib's binomial cdf and pmf (an independent library), r_p found by bisection.
+    it('then limits at sizes up to 200,000 agree with @stdlib\'s binomial cdf and pmf to 1e-9', () => {
+      const reference = (t: number, n: number, p: number) => {
+        let lo = 0;
+        let hi = n;
+        while (lo < hi) { const mid = Math.floor((lo + hi) / 2); if (binomialCdf(mid, n, t) >= p * (1 - 64 * Number.EPSILON)) hi = mid; else lo = mid + 1; }
+        return Math.min(1, Math.max(0, (lo - (binomialCdf(lo, n, t) - p) / binomialPmf(lo, n, t)) / n));
+      };
+      for (const t of [0.003, 0.0814, 0.17, 0.5, 0.93]) {
+        const sizes = [1500, 20000, 87654, 200000];
+        funnelLimits(t, sizes).forEach((point, i) => {
+          for (const { level, lower, upper } of point.limits) {
+            expectClose(lower, reference(t, sizes[i], (1 - level) / 2), { abs: 1e-9 }, `lower, target ${t}, size ${sizes[i]}, level ${level}`);
+            expectClose(upper, reference(t, sizes[i], (1 + level) / 2), { abs: 1e-9 }, `upper, target ${t}, size ${sizes[i]}, level ${level}`);
+          }
+        });
+      }
+    });
+
     it('then the limits approach the normal funnel target -+ z sqrt(target(1 - target)/n) (Spiegelhalter 2005, eq. for the normal approximation)', () => {
       const target = 0.1;
       const n = 20000;
