@@ -1,6 +1,5 @@
 import express from 'express';
 import session from 'express-session';
-import connectPgSimple from 'connect-pg-simple';
 import helmet from 'helmet';
 import rateLimit from 'express-rate-limit';
 import fs from 'node:fs';
@@ -8,6 +7,7 @@ import path from 'node:path';
 import pg from 'pg';
 import type { AppContext } from './context.js';
 import { configurePassport } from './auth/passport.js';
+import { createSessionStore } from './auth/session-store.js';
 import { csrfSynchronisedProtection } from './auth/csrf.js';
 import { AppError, apiNotFound, errorHandler } from './http/errors.js';
 import { healthRouter } from './health/health.router.js';
@@ -20,13 +20,16 @@ export function createApp(context: AppContext, opts: { staticDir?: string } = {}
   const app = express();
   app.locals.ctx = context;
   app.disable('x-powered-by');
+  // API answers carry health data: never stored by a browser or proxy (OWASP ASVS V8.2.1), so an
+  // ETag (a hash of every JSON body) would serve nothing. Static files keep theirs.
+  app.set('etag', false);
   if (config.TRUST_PROXY) app.set('trust proxy', 1);
   app.use(helmet({ contentSecurityPolicy: { directives: { 'img-src': ["'self'", 'data:', 'blob:'] } } }));
   app.use(express.json({ limit: '2mb' }));
 
+  app.use('/api', (_req, res, next) => { res.setHeader('Cache-Control', 'no-store'); next(); });
   app.use(healthRouter.prefix, healthRouter.router);
 
-  const PgStore = connectPgSimple(session);
   const sessionPool = new pg.Pool({ connectionString: config.DATABASE_URL, max: 5, connectionTimeoutMillis: 3000 });
   sessionPool.on('error', () => undefined); // reconnects on next use; errors surface per request
   app.locals.sessionPool = sessionPool;
@@ -34,17 +37,19 @@ export function createApp(context: AppContext, opts: { staticDir?: string } = {}
   // The session row is rewritten at most once per `refreshMs` (not on every request: a write per
   // GET halved the throughput under load). The idle check allows for that granularity, so a
   // session ends at most `refreshMs` late and never early; the store row and the cookie live as
-  // long, and touch() is off because the periodic save already renews the row's expiry.
+  // long, and touch() is off because the periodic save already renews the row's expiry. The
+  // cookie is sent again with each save (not `rolling` on every response), which keeps its
+  // expiry ahead of the idle limit without a signature per request.
   const refreshMs = Math.min(60_000, idleMs / 10);
   app.use(
     '/api',
     session({
       name: 'alveolog.sid',
-      store: new PgStore({ pool: sessionPool, tableName: 'session', pruneSessionInterval: 15 * 60, disableTouch: true }),
+      store: createSessionStore({ pool: sessionPool, ttlMs: config.SESSION_USER_CACHE_MS, pruneSeconds: 15 * 60 }),
       secret: config.SESSION_SECRET,
       resave: false,
       saveUninitialized: false,
-      rolling: true,
+      rolling: false,
       cookie: { httpOnly: true, sameSite: 'strict', secure: config.NODE_ENV === 'production' && !!config.APP_URL?.startsWith('https'), maxAge: idleMs + refreshMs, path: '/' },
     }),
   );

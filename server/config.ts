@@ -15,7 +15,7 @@ const ConfigSchema = z.object({
   IDENTIFIER_HASH_SECRET: z.string().min(32, 'IDENTIFIER_HASH_SECRET must be at least 32 characters'),
   DEMO_MODE: bool.default(false),
   IDLE_MINUTES: z.coerce.number().min(0.01).max(24 * 60).default(30),
-  /** How long a signed-in user's roles and sites are reused between requests (0: looked up every time). */
+  /** How long a signed-in user's roles and sites, and the session row, are reused between requests (0: read every time). */
   SESSION_USER_CACHE_MS: z.coerce.number().int().min(0).max(60_000).default(5000),
   BCRYPT_COST: z.coerce.number().int().min(4).max(15).default(12),
   LOGIN_MAX_FAILURES: z.coerce.number().int().min(1).default(5),

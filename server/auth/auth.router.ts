@@ -70,7 +70,7 @@ a.post('/password-reset', 'public', async (req, res) => {
 async function setPasswordFromToken(req: Request, kind: 'invite' | 'reset') {
   const { token, password } = parse(PasswordResetConfirmSchema, req.body, kind === 'invite' ? 'invitation form' : 'password reset form');
   const { ds, config } = ctx(req);
-  return ds.transaction(async (tx) => {
+  const { userId, email } = await ds.transaction(async (tx) => {
     const userId = await consumeToken(tx, token, kind);
     const [u] = await tx.query(`SELECT email FROM users WHERE id = $1`, [userId]);
     assertPasswordPolicy(password, u.email);
@@ -78,8 +78,11 @@ async function setPasswordFromToken(req: Request, kind: 'invite' | 'reset') {
     // A password change ends every other session of that user (OWASP ASVS V3.3.3).
     await tx.query(`DELETE FROM session WHERE sess->'passport'->>'user' = $1`, [userId]);
     await audit(tx, { action: kind === 'invite' ? 'invitation-accepted' : 'password-reset', actorId: userId, actorEmail: u.email, entity: 'user', entityId: userId, ip: req.ip ?? null });
-    return { ok: true, email: u.email };
+    return { userId, email: u.email as string };
   });
+  // After the commit: this process stops reusing the sessions the transaction deleted.
+  forgetSessionUser(ds, userId);
+  return { ok: true, email };
 }
 
 a.post('/password-reset/confirm', 'public', (req) => setPasswordFromToken(req, 'reset'));

@@ -1,6 +1,7 @@
 import type { DataSource } from 'typeorm';
 import type { SessionUser } from '../../shared/auth/user.js';
 import type { Role } from '../../shared/auth/roles.js';
+import { forgetCachedSessions } from './session-store.js';
 
 /** Loads the signed-in user's current roles and sites (on every request: a change applies at once). */
 export async function loadSessionUser(ds: DataSource, id: string, demoMode: boolean): Promise<SessionUser | null> {
@@ -48,8 +49,12 @@ export async function cachedSessionUser(ds: DataSource, id: string, demoMode: bo
   return user;
 }
 
-/** Drops a user's cached entry (after any change to them); without an id, every entry. */
+/**
+ * Drops a user's cached entry and cached session rows (after any change to them, or after SQL
+ * ended their sessions; call it once the transaction has committed); without an id, every entry.
+ */
 export function forgetSessionUser(ds: DataSource, id?: string): void {
+  forgetCachedSessions(id);
   const cache = caches.get(ds);
   if (!cache) return;
   if (id) cache.delete(id);

@@ -138,6 +138,46 @@ describe('password policy and reset by e-mail', () => {
     expect((await t.client().signIn(email, 'lanterns along the quay')).status).toBe(200);
   });
 
+  it('when a password is reset, then a session open elsewhere ends at once, though session rows are briefly reused (V3.3.3)', async () => {
+    const email = 'other.session@tidewater.example';
+    await newUser(email);
+    const elsewhere = t.client();
+    expect((await elsewhere.signIn(email, 'a quiet harbour at dawn')).status).toBe(200);
+    // Two reads: the second is answered from the session cache (SESSION_USER_CACHE_MS).
+    expect((await elsewhere.get('/api/auth/me')).status).toBe(200);
+    expect((await elsewhere.get('/api/auth/me')).status).toBe(200);
+    const c = await t.client().refreshCsrf();
+    await c.post('/api/auth/password-reset', { email });
+    const mail = (await t.mailTo(email)).find((m) => /reset/i.test(m.subject))!;
+    const token = /reset-password\?token=([\w-]+)/.exec(mail.body)![1];
+    expect((await c.post('/api/auth/password-reset/confirm', { token, password: 'gulls over the breakwater' })).status).toBe(200);
+    const after = await elsewhere.get('/api/auth/me');
+    expect(after.status).toBe(401);
+    expect(after.body.error.code).toBe('not_signed_in');
+  });
+
+  it('when an admin deactivates a user, then that user\'s open session ends at once (V3.3.3)', async () => {
+    const email = 'leaving.person@tidewater.example';
+    const id = await newUser(email);
+    const u = t.client();
+    expect((await u.signIn(email, 'a quiet harbour at dawn')).status).toBe(200);
+    expect((await u.get('/api/auth/me')).status).toBe(200);
+    expect((await u.get('/api/auth/me')).status).toBe(200);
+    const admin = await t.as('admin');
+    expect((await admin.patch(`/api/users/${id}`, { active: false })).status).toBe(200);
+    expect((await u.get('/api/auth/me')).status).toBe(401);
+  });
+
+  it('when the API answers, then it forbids caching and sends no ETag (V8.2.1)', async () => {
+    const c = await t.as('analyst');
+    for (const path of ['/api/auth/me', '/api/cases?pageSize=5', '/api/health']) {
+      const r = await c.get(path);
+      expect(r.status, path).toBe(200);
+      expect(r.headers['cache-control'], path).toBe('no-store');
+      expect(r.headers.etag, path).toBeUndefined();
+    }
+  });
+
   it('when a reset token is older than its hour, then it no longer works', async () => {
     const email = 'expired.person@tidewater.example';
     await newUser(email);

@@ -1,0 +1,72 @@
+/**
+ * The session store: connect-pg-simple's table, with a short read-through cache in front.
+ * express-session reads the row on every API request; under load that read was, after the
+ * user lookup, the commonest database round trip. A row is reused for `ttlMs` at most, and
+ * every write or destroy through this store drops it first, so sign-in, sign-out, session
+ * regeneration and the once-a-minute refresh take effect at once in this process. Sessions
+ * ended by SQL (a deactivated user, a password reset) are dropped by `forgetCachedSessions`,
+ * which `forgetSessionUser` calls; `ttlMs` bounds what another process can still see.
+ */
+import session from 'express-session';
+import connectPgSimple from 'connect-pg-simple';
+import type pg from 'pg';
+
+type Entry = { json: string; userId: string | null; at: number };
+/** A store's cache and its write count: a read that overlapped a write is not cached (it may predate it). */
+type Cache = { entries: Map<string, Entry>; writes: number };
+type SessionData = session.SessionData;
+type Callback<T> = (err?: unknown, value?: T | null) => void;
+
+/** Every live store's cache in this process (tests build several apps). */
+const caches = new Set<Cache>();
+
+const userOf = (s: SessionData): string | null => {
+  const id = (s as unknown as { passport?: { user?: unknown } }).passport?.user;
+  return typeof id === 'string' ? id : null;
+};
+
+export function createSessionStore(opts: { pool: pg.Pool; ttlMs: number; pruneSeconds: number }): session.Store {
+  const PgStore = connectPgSimple(session);
+  const cache: Cache = { entries: new Map(), writes: 0 };
+  caches.add(cache);
+  const drop = (sid: string) => { cache.writes += 1; cache.entries.delete(sid); };
+  class CachedPgStore extends PgStore {
+    override get(sid: string, cb: Callback<SessionData>): void {
+      const hit = cache.entries.get(sid);
+      // A parsed copy per request: express-session mutates the object it is given.
+      if (hit && Date.now() - hit.at < opts.ttlMs) return cb(null, JSON.parse(hit.json) as SessionData);
+      const at = Date.now();
+      const writes = cache.writes;
+      super.get(sid, (err?: unknown, sess?: SessionData | null) => {
+        if (!err && sess && opts.ttlMs > 0 && cache.writes === writes) {
+          if (cache.entries.size > 10_000) cache.entries.clear(); // a bound far above the staff signed in at once
+          cache.entries.set(sid, { json: JSON.stringify(sess), userId: userOf(sess), at });
+        }
+        cb(err, sess);
+      });
+    }
+    override set(sid: string, sess: SessionData, cb?: (err?: unknown) => void): void {
+      // Dropped before and after the write, so no read around it keeps the old row.
+      drop(sid);
+      super.set(sid, sess, (err?: unknown) => { drop(sid); cb?.(err); });
+    }
+    override destroy(sid: string, cb?: (err?: unknown) => void): void {
+      drop(sid);
+      super.destroy(sid, (err?: unknown) => { drop(sid); cb?.(err); });
+    }
+    override close(): void {
+      caches.delete(cache);
+      super.close();
+    }
+  }
+  return new CachedPgStore({ pool: opts.pool, tableName: 'session', pruneSessionInterval: opts.pruneSeconds, disableTouch: true });
+}
+
+/** Drops the cached sessions of one user (after SQL ended them), or every cached session. */
+export function forgetCachedSessions(userId?: string): void {
+  for (const cache of caches) {
+    cache.writes += 1;
+    if (!userId) { cache.entries.clear(); continue; }
+    for (const [sid, e] of cache.entries) if (e.userId === userId) cache.entries.delete(sid);
+  }
+}
