@@ -3,6 +3,8 @@
  * rests on. Targets (2-core machine): a cohort's rates < 150 ms, a 60-month series < 200 ms, a
  * two-cohort comparison < 300 ms, each within 1.5x of its bare SQL.
  */
+import http from 'node:http';
+import type { AddressInfo } from 'node:net';
 import type { Bench } from './harness.js';
 import { encodeCohortFilter, type CohortFilter } from '../../shared/analysis/cohort-filter.js';
 import { cellTotalsSql, losFrequenciesSql } from '../../server/analysis/queries.js';
@@ -23,6 +25,11 @@ export default async function analysisBench(b: Bench): Promise<void> {
   };
   // The fixed cost of any signed-in API request (session and user lookup, JSON): the floor under every ratio.
   await b.time('baseline: signed-in request (GET /api/auth/me)', '-', () => must('/api/auth/me'));
+  // The machine's own toll on a small query: a bare node:http server (no Express, no session, no
+  // app) that runs SELECT pg_sleep(0.006), a small cohort's SQL time, and answers 2.6 kB; beside
+  // the same SQL alone. Its ratio is what any HTTP route pays here over its SQL.
+  const sleep = { text: 'SELECT pg_sleep(0.006)' };
+  await b.time('platform: node:http + one 6 ms query, no app', '-', await platformProbe(b, sleep.text), { bareSql: sleep });
   for (const [name, f] of Object.entries(b.cohorts)) {
     const size = ((await must(`/api/analysis/rates?${qs(f)}`)) as { size: number }).size;
     b.log(`cohort ${name}: ${size.toLocaleString('en')} counted cases`);
@@ -46,4 +53,24 @@ export default async function analysisBench(b: Bench): Promise<void> {
   // Outside the roll-up's dimensions the narrow fact table answers (documented slower path).
   const wide: CohortFilter = { from: '2021-01-01', to: '2025-12-31', sexes: ['female'], asaClasses: ['III', 'IV'] };
   await b.time('cohort rates, fact-table path (GET /api/analysis/rates)', 'female ASA III-IV 5y', () => must(`/api/analysis/rates?${qs(wide)}`), { bareSql: cellTotalsSql(wide, []) });
+}
+
+/** A GET against a throw-away node:http server that runs `sql` and answers, on one kept-alive socket. */
+async function platformProbe(b: Bench, sql: string): Promise<() => Promise<void>> {
+  const body = JSON.stringify({ pad: 'x'.repeat(2600) });
+  const server = http.createServer((_req, res) => {
+    b.pool.query(sql).then(() => { res.setHeader('content-type', 'application/json'); res.end(body); }, () => { res.statusCode = 500; res.end(); });
+  });
+  server.listen(0, '127.0.0.1');
+  await new Promise<void>((r) => server.once('listening', () => r()));
+  server.unref();
+  const { port } = server.address() as AddressInfo;
+  const agent = new http.Agent({ keepAlive: true, maxSockets: 1 });
+  return () => new Promise<void>((resolve, reject) => {
+    http.request({ host: '127.0.0.1', port, path: '/', agent }, (res) => {
+      res.resume();
+      res.on('end', () => (res.statusCode === 200 ? resolve() : reject(new Error(`platform probe: ${res.statusCode}`))));
+      res.on('error', reject);
+    }).on('error', reject).end();
+  });
 }
