@@ -34,7 +34,7 @@ const ConfigSchema = z.object({
   UPLOAD_MAX_MB: z.coerce.number().min(0.001).default(20),
   IMPORT_MAX_ROWS: z.coerce.number().int().min(1).default(100_000),
   /** Rows per INSERT while an import commits (progress is reported after each batch). */
-  IMPORT_BATCH_ROWS: z.coerce.number().int().min(1).max(5000).default(500),
+  IMPORT_BATCH_ROWS: z.coerce.number().int().min(1).max(5000).default(2000),
   UPLOAD_RETENTION_HOURS: z.coerce.number().min(0).default(24),
   EXPORT_RETENTION_HOURS: z.coerce.number().min(0).default(72),
   /**

@@ -1,7 +1,8 @@
 /**
- * The import's background jobs. Dry run: build the plan, store counts and problems. Commit:
- * build the plan again (the registry may have changed since the dry run), refuse if any row is
- * rejected, then write everything in ONE transaction; the uploaded file is deleted afterwards.
+ * The import's background jobs. Dry run: build the plan, store counts and problems, and keep a
+ * clean plan for the commit (staged-plan.ts). Commit: take that plan while the registry facts it
+ * was built on still hold, else build it again from the file; refuse if any row is rejected, then
+ * write everything in ONE transaction; the uploaded file and the plan are deleted afterwards.
  */
 import type { AppContext } from '../context.js';
 import { JobCancelled, registerJobKind, registerSchedule, type JobTools } from '../jobs/registry.js';
@@ -11,9 +12,12 @@ import { todayIn } from '../../shared/registry/derived.js';
 import type { ExistingPolicy, Mapping, SheetInfo } from '../../shared/imports/api.js';
 import type { RecordKind } from '../../shared/imports/fields.js';
 import { therapyCheckSettings } from '../registry/settings.js';
+import type { TherapyCheckSettings } from '../../shared/clinical/modalities.js';
 import { buildPlan, type Plan, type PlanUser } from './plan.js';
 import { writePlan } from './writer.js';
 import { deleteImportFile, purgeExpiredUploads, storedFile } from './storage.js';
+import { loadStagedPlan, planBasis, saveStagedPlan } from './staged-plan.js';
+import { logger } from '../logger.js';
 import { COMMIT_JOB, DRY_RUN_JOB } from './imports.service.js';
 
 /** Problems kept per import (all are counted; the first ones are stored and downloadable). */
@@ -34,13 +38,13 @@ async function loadRow(context: AppContext, importId: string): Promise<Row> {
   return r;
 }
 
-async function plan(context: AppContext, r: Row, user: PlanUser, tools: JobTools, retainRows = true): Promise<Plan> {
+async function plan(context: AppContext, r: Row, user: PlanUser, tools: JobTools, therapySettings: TherapyCheckSettings, retainRows = true): Promise<Plan> {
   const filePath = storedFile(context.config, r.stored_path);
   if (!filePath) throw new AppError(410, 'file_gone', 'the uploaded file is no longer kept; upload it again');
   return buildPlan({
     db: context.ds, filePath, fileType: r.file_type, fileName: r.file_name, sheets: r.sheets as SheetInfo[], mapping: r.mapping as Mapping,
     decimal: r.decimal, uploadSiteId: r.site_id, defaultKind: r.default_kind as RecordKind, user, secret: context.config.IDENTIFIER_HASH_SECRET,
-    today: todayIn(context.config.NETWORK_TIME_ZONE, new Date()), therapySettings: await therapyCheckSettings(context.ds), maxProblems: MAX_STORED_PROBLEMS,
+    today: todayIn(context.config.NETWORK_TIME_ZONE, new Date()), therapySettings, maxProblems: MAX_STORED_PROBLEMS,
     onProgress: (p) => tools.progress(p),
     checkCancelled: async () => { if (await tools.isCancelled()) throw new JobCancelled(); },
     retainRows,
@@ -52,7 +56,10 @@ registerJobKind(DRY_RUN_JOB, async (job, tools, context) => {
   const r = await loadRow(context, importId);
   try {
     const user = await planUser(context, job.createdBy);
-    const p = await plan(context, r, user, tools, false);
+    const settings = await therapyCheckSettings(context.ds);
+    const basis = await planBasis(context.ds, r as never, user, settings);
+    const p = await plan(context, r, user, tools, settings);
+    if (p.errorCount === 0) await saveStagedPlan(context.config, importId, basis, p);
     await context.ds.query(`UPDATE import_jobs SET status = 'validated', counts = $2, problems = $3, problem_count = $4, validated_at = now(), error = NULL WHERE id = $1`,
       [importId, JSON.stringify(p.counts), JSON.stringify(p.problems), p.problemCount]);
     return { importId, counts: p.counts, problemCount: p.problemCount };
@@ -68,7 +75,16 @@ registerJobKind(COMMIT_JOB, async (job, tools, context) => {
   const r = await loadRow(context, importId);
   if (r.status === 'committed') return { importId, alreadyCommitted: true };
   const user = await planUser(context, job.createdBy);
-  const p = await plan(context, r, user, tools);
+  const settings = await therapyCheckSettings(context.ds);
+  const staged = await loadStagedPlan(context.ds, context.config, r as never, user, settings);
+  let p: Plan;
+  if (staged.plan) {
+    p = staged.plan;
+    await tools.progress({ total: p.counts.rows, parsed: p.counts.rows, validated: p.counts.rows });
+  } else {
+    logger.info({ importId, reason: staged.reason }, 'import commit checks the file again');
+    p = await plan(context, r, user, tools, settings);
+  }
   if (p.errorCount > 0) {
     await context.ds.query(`UPDATE import_jobs SET status = 'validated', counts = $2, problems = $3, problem_count = $4, validated_at = now(), error = $5 WHERE id = $1`,
       [importId, JSON.stringify(p.counts), JSON.stringify(p.problems), p.problemCount, 'rows were rejected when the commit checked the file again; nothing was imported']);

@@ -16,6 +16,7 @@ import { checkUpload } from './file-check.js';
 import { scanUpload } from './scan.js';
 import { checkMapping } from './mapping.js';
 import { deleteImportFile, storedFile, uploadDir } from './storage.js';
+import { discardStagedPlan } from './staged-plan.js';
 
 type Row = Record<string, any>;
 const iso = (d: unknown) => (d ? new Date(d as string).toISOString() : null);
@@ -122,6 +123,7 @@ export async function startDryRun(context: AppContext, id: string, body: DryRunR
   if (!storedFile(config, r.stored_path)) throw new AppError(410, 'file_gone', 'the uploaded file is no longer kept (it is deleted after the retention time)', { hint: 'upload the file again' });
   checkMapping(r.sheets as SheetInfo[], body.mapping);
   if (body.savePresetAs) await savePreset(ds, r.site_id, body.savePresetAs, body.mapping, actor.user);
+  await discardStagedPlan(config, id);
   const jobId = await enqueueJob(ds, DRY_RUN_JOB, { importId: id }, actor.user.id);
   await ds.query(`UPDATE import_jobs SET mapping = $2, status = 'validating', dry_run_job_id = $3, error = NULL, counts = NULL, problems = '[]', problem_count = 0 WHERE id = $1`, [id, JSON.stringify(body.mapping), jobId]);
   return getImport(ds, id, actor.user);

@@ -80,6 +80,8 @@ export interface ChildPlan<F> {
   /** The case in this plan (index into `cases`) or an existing case id. */
   caseIndex: number | null;
   caseId: string | null;
+  /** The version of the existing case it was checked against (null for a case of this file). */
+  caseVersion: number | null;
   fields: F;
   warnings: { path: string; message: string }[];
   evaluation?: EventEvaluation;
@@ -363,7 +365,7 @@ export async function buildPlan(input: PlanInput): Promise<Plan> {
       const sig = episodeSignature(chk.fields);
       const action = caseId && existingEpisodes.get(caseId)?.has(sig) ? 'unchanged' : 'new';
       kc[action === 'new' ? 'new' : 'unchanged']++;
-      therapy.push({ row: ch.parsed.row, action, caseIndex, caseId, fields: chk.fields, warnings: chk.warnings });
+      therapy.push({ row: ch.parsed.row, action, caseIndex, caseId, caseVersion: ex?.version ?? null, fields: chk.fields, warnings: chk.warnings });
     } else {
       const r = OutcomeEventFormSchema.safeParse(given);
       if (!r.success) { issuesToProblems(ch.sheet, ch.parsed, r.error.issues, colOf, sink, (f) => columnOf('outcomes', f)?.label ?? f); reject(); continue; }
@@ -378,7 +380,7 @@ export async function buildPlan(input: PlanInput): Promise<Plan> {
       const sig = eventSignature(ev);
       const action = caseId && existingEvents.get(caseId)?.has(sig) ? 'unchanged' : 'new';
       kc[action === 'new' ? 'new' : 'unchanged']++;
-      outcomes.push({ row: ch.parsed.row, action, caseIndex, caseId, fields: ev, warnings: [], evaluation });
+      outcomes.push({ row: ch.parsed.row, action, caseIndex, caseId, caseVersion: ex?.version ?? null, fields: ev, warnings: [], evaluation });
     }
   }
   await progress(true);

@@ -8,6 +8,9 @@ import type { DataSource } from 'typeorm';
 import type { Config } from '../config.js';
 import { logger } from '../logger.js';
 
+/** The dry run's stored plan of an import (staged-plan.ts), kept beside its upload. */
+export const planFileName = (importId: string) => `${path.basename(importId)}.plan`;
+
 export function uploadDir(config: Pick<Config, 'DATA_DIR'>): string {
   const dir = path.resolve(config.DATA_DIR, 'imports');
   fs.mkdirSync(dir, { recursive: true, mode: 0o700 });
@@ -21,6 +24,8 @@ export async function deleteImportFile(ds: DataSource, config: Pick<Config, 'DAT
     const full = path.resolve(uploadDir(config), path.basename(row.stored_path));
     await fs.promises.rm(full, { force: true });
   }
+  // The dry run's stored plan (staged-plan.ts) goes with its upload.
+  await fs.promises.rm(path.join(uploadDir(config), planFileName(importId)), { force: true });
   await ds.query(`UPDATE import_jobs SET stored_path = NULL, file_deleted_at = COALESCE(file_deleted_at, now()) WHERE id = $1`, [importId]);
 }
 
@@ -44,8 +49,10 @@ export async function purgeExpiredUploads(ds: DataSource, config: Pick<Config, '
     await deleteImportFile(ds, config, r.id);
   }
   const dir = uploadDir(config);
-  const known = new Set((await ds.query(`SELECT stored_path FROM import_jobs WHERE stored_path IS NOT NULL`)).map((r: { stored_path: string }) => path.basename(r.stored_path)));
-  // A file with no record is an upload in flight or left by a crash: gone after ten minutes.
+  const kept: { id: string; stored_path: string }[] = await ds.query(`SELECT id, stored_path FROM import_jobs WHERE stored_path IS NOT NULL`);
+  const known = new Set(kept.flatMap((r) => [path.basename(r.stored_path), planFileName(r.id)]));
+  // A file with no record (or a plan whose upload is gone) is an upload in flight or left by a
+  // crash: gone after ten minutes.
   const cutoff = Date.now() - 10 * 60_000;
   for (const name of await fs.promises.readdir(dir)) {
     if (known.has(name)) continue;
