@@ -33,19 +33,22 @@ export async function loadSessionUser(ds: DataSource, id: string, demoMode: bool
  * was a fifth of the database round trips. Every change the application makes to a user's
  * roles, sites, activity or second factor calls `forgetSessionUser`, so in this process a change
  * applies at once; `ttlMs` bounds how long another process (or `npm run create-admin`) can see
- * the old values.
+ * the old values. A lookup that overlapped a forget is not kept (it may have read the row
+ * before the change).
  */
-const caches = new WeakMap<object, Map<string, { user: SessionUser | null; at: number }>>();
+type UserCache = { entries: Map<string, { user: SessionUser | null; at: number }>; forgets: number };
+const caches = new WeakMap<object, UserCache>();
 
 export async function cachedSessionUser(ds: DataSource, id: string, demoMode: boolean, ttlMs: number): Promise<SessionUser | null> {
   let cache = caches.get(ds);
-  if (!cache) caches.set(ds, (cache = new Map()));
-  const hit = cache.get(id);
+  if (!cache) caches.set(ds, (cache = { entries: new Map(), forgets: 0 }));
+  const hit = cache.entries.get(id);
   const now = Date.now();
   if (hit && now - hit.at < ttlMs) return hit.user;
+  const forgets = cache.forgets;
   const user = await loadSessionUser(ds, id, demoMode);
-  if (cache.size > 10_000) cache.clear(); // a bound, far above the number of staff signed in at once
-  if (ttlMs > 0) cache.set(id, { user, at: now });
+  if (cache.entries.size > 10_000) cache.entries.clear(); // a bound, far above the number of staff signed in at once
+  if (ttlMs > 0 && cache.forgets === forgets) cache.entries.set(id, { user, at: now });
   return user;
 }
 
@@ -57,6 +60,7 @@ export function forgetSessionUser(ds: DataSource, id?: string): void {
   forgetCachedSessions(id);
   const cache = caches.get(ds);
   if (!cache) return;
-  if (id) cache.delete(id);
-  else cache.clear();
+  cache.forgets += 1;
+  if (id) cache.entries.delete(id);
+  else cache.entries.clear();
 }

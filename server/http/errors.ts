@@ -42,8 +42,9 @@ export const apiNotFound: RequestHandler = (req, res) => {
 
 function isDatabaseDown(err: unknown): boolean {
   const e = err as { code?: string; message?: string };
+  // On the Unix socket a stopped server is "connect ENOENT <socket>" (its socket file is gone).
   return ['ECONNREFUSED', 'ECONNRESET', '57P01', '57P03', 'ETIMEDOUT', '08006', '08001'].includes(String(e?.code ?? ''))
-    || /Connection terminated|connect ECONNREFUSED|timeout exceeded when trying to connect|the database system is (shutting down|starting up)/i.test(String(e?.message ?? ''));
+    || /Connection terminated|connect (ECONNREFUSED|ENOENT)|timeout exceeded when trying to connect|the database system is (shutting down|starting up)/i.test(String(e?.message ?? ''));
 }
 
 /** The final error handler: known errors keep their status, anything else is a logged 500. */

@@ -127,6 +127,9 @@ export async function prepareDatabase(): Promise<Record<string, string>> {
 function superUrlFor(env: Record<string, string>): string {
   const u = new URL(env.DATABASE_SUPER_URL);
   u.pathname = `/${BENCH_DB}`;
+  // The bare SQL goes over the same transport as the application's queries (its Unix socket).
+  const socket = new URL(env.DATABASE_URL).searchParams.get('host');
+  if (socket) u.searchParams.set('host', socket);
   return u.toString();
 }
 
