@@ -38,6 +38,10 @@ export function createSessionStore(opts: { pool: pg.Pool; ttlMs: number; pruneSe
       const at = Date.now();
       const writes = cache.writes;
       super.get(sid, (err?: unknown, sess?: SessionData | null) => {
+        // express-session reads an error with code ENOENT as "no such session" (file stores) and
+        // starts a new one; over the Unix socket a stopped database is "connect ENOENT", which
+        // must stay an error (503), not sign the user out.
+        if ((err as { code?: string } | undefined)?.code === 'ENOENT') err = Object.assign(new Error((err as Error).message), { code: '08006', cause: err });
         if (!err && sess && opts.ttlMs > 0 && cache.writes === writes) {
           if (cache.entries.size > 10_000) cache.entries.clear(); // a bound far above the staff signed in at once
           cache.entries.set(sid, { json: JSON.stringify(sess), userId: userOf(sess), at });

@@ -44,7 +44,7 @@ describe('PostgreSQL stopped while the server runs', () => {
     expect(down.status).toBe(503);
     expect(down.body).toEqual({ status: 'degraded', database: 'unavailable' });
     const api = await agent.post('/api/auth/password-reset').set('x-csrf-token', csrfToken).send({ email: 'someone@tidewater.example' });
-    expect(api.status).toBe(503);
+    expect(api.status, JSON.stringify(api.body)).toBe(503);
     expect(api.body.error.code).toBe('database_unavailable');
     expect(api.body.error.message).toMatch(/database/);
     expect(Date.now() - t0).toBeLessThan(8000);

@@ -36,7 +36,8 @@ beforeAll(async () => {
   replica.stop();
   fs.rmSync(replica.dir, { recursive: true, force: true });
   replica.start();
-  const replicaUrl = env.DATABASE_URL.replace(`:${primary.port}/`, `:${replica.port}/`);
+  // The same role and database on the standby (its own port and socket).
+  const replicaUrl = dbEnv(replica, 'alveolog_replica', roles).DATABASE_URL as string;
   const config = loadConfig({ ...env, DATABASE_REPLICA_URL: replicaUrl } as NodeJS.ProcessEnv);
   ds = await createDataSource(config.DATABASE_URL, 3).initialize();
   readDs = await createDataSource(replicaUrl, 3).initialize();
