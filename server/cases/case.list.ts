@@ -3,6 +3,7 @@
  * sites. Above 10,000 rows the total is the planner's estimate, flagged so the table says
  * "about" (exact counts of a million rows are slow and the footer needs only the magnitude).
  */
+import { preparedRows } from '../db/prepared.js';
 import type { DataSource } from 'typeorm';
 import type { SessionUser } from '../../shared/auth/user.js';
 import { parseSort } from '../../shared/api/pagination.js';
@@ -72,7 +73,7 @@ async function plannerEstimate(ds: DataSource, where: { sql: string; params: unk
 async function listTotal(ds: DataSource, where: { sql: string; params: unknown[] }): Promise<{ total: number; estimate: boolean }> {
   const estimate = await plannerEstimate(ds, where);
   if (estimate > ESTIMATE_ABOVE) return { total: estimate, estimate: true };
-  const [{ n }] = await ds.query(`SELECT count(*)::int AS n FROM surgical_cases c ${where.sql}`, where.params);
+  const [{ n }] = await preparedRows<{ n: number }>(ds, `SELECT count(*)::int AS n FROM surgical_cases c ${where.sql}`, where.params);
   return { total: n, estimate: false };
 }
 
@@ -89,7 +90,7 @@ export async function listCases(ds: DataSource, q: CaseListQuery, user: SessionU
   // rows only: a select-list subquery below OFFSET would run for every skipped row.
   // The total (an exact count, or the planner's estimate above ESTIMATE_ABOVE rows) runs alongside.
   const [rows, total] = await Promise.all([
-    ds.query(
+    preparedRows(ds,
       `WITH page AS (SELECT c.id FROM surgical_cases c ${where.sql} ORDER BY ${order} LIMIT $${n + 1} OFFSET $${n + 2})
        SELECT c.id, c.registry_number, c.site_id, s.code AS site_code, u.code AS unit_code, c.status, c.surgery_date::text AS surgery_date,
               c.procedure_category, c.age, c.ariscat_points, c.ariscat_class, c.version, c.updated_at,

@@ -3,6 +3,7 @@
  * site or the network: monthly inputs (SQL aggregates, closed months from the roll-up) turned
  * into periods, then into run and control charts by chart-build.ts.
  */
+import { preparedRows } from '../db/prepared.js';
 import type { DataSource } from 'typeorm';
 import type { Annotation, ChartQuery, ChartResponse, GChartResponse } from '../../shared/committee/chart.js';
 import { MEASURES, measureByKey, type MeasureDefinition, type MeasureKey, type MeasureSettings, type MeasureSettingsUpdate } from '../../shared/committee/measures.js';
@@ -16,7 +17,7 @@ import { readMonthly } from './rollup.js';
 export type MeasureWithSettings = MeasureDefinition & MeasureSettings;
 
 export async function measureSettings(ds: DataSource): Promise<Map<MeasureKey, MeasureSettings>> {
-  const rows: { measure_key: MeasureKey; enabled: boolean; bs: string | null; be: string | null }[] = await ds.query(
+  const rows: { measure_key: MeasureKey; enabled: boolean; bs: string | null; be: string | null }[] = await preparedRows(ds,
     `SELECT measure_key, enabled, to_char(baseline_start, 'YYYY-MM') AS bs, to_char(baseline_end, 'YYYY-MM') AS be FROM committee_measure_settings`,
   );
   const map = new Map<MeasureKey, MeasureSettings>();
@@ -50,28 +51,28 @@ export async function updateMeasureSettings(ds: DataSource, key: MeasureKey, cha
 }
 
 export async function closedMonths(ds: DataSource): Promise<Set<string>> {
-  const rows: { m: string }[] = await ds.query(`SELECT to_char(month, 'YYYY-MM') AS m FROM committee_month_closes WHERE closed`);
+  const rows = await preparedRows<{ m: string }>(ds, `SELECT to_char(month, 'YYYY-MM') AS m FROM committee_month_closes WHERE closed`);
   return new Set(rows.map((r) => r.m));
 }
 
 export async function firstDataMonth(ds: DataSource): Promise<string | null> {
-  const [row] = await ds.query(`SELECT to_char(min(surgery_date), 'YYYY-MM') AS m FROM surgical_cases WHERE status IN ('complete', 'verified', 'locked')`);
+  const [row] = await preparedRows<{ m: string | null }>(ds, `SELECT to_char(min(surgery_date), 'YYYY-MM') AS m FROM surgical_cases WHERE status IN ('complete', 'verified', 'locked')`);
   return row?.m ?? null;
 }
 
 export async function siteLabel(ds: DataSource, site: string): Promise<string> {
   if (site === 'network') {
-    const [row] = await ds.query(`SELECT value->>'name' AS name FROM settings WHERE key = 'network'`);
+    const [row] = await preparedRows<{ name: string | null }>(ds, `SELECT value->>'name' AS name FROM settings WHERE key = 'network'`);
     return row?.name ? `${row.name} (network)` : 'Whole network';
   }
-  const [row] = await ds.query(`SELECT code, name FROM sites WHERE id = $1`, [site]);
+  const [row] = await preparedRows<{ code: string; name: string }>(ds, `SELECT code, name FROM sites WHERE id = $1`, [site]);
   if (!row) throw notFound('the site');
   return `${row.name} (${row.code})`;
 }
 
 /** The notes of a site's charts; the network's charts show the network's notes and every site's (with its code). */
 export async function annotationsFor(ds: DataSource, site: string): Promise<Annotation[]> {
-  const rows = await ds.query(
+  const rows = await preparedRows<Annotation & { createdAt: Date }>(ds,
     `SELECT a.id, a.site_id AS "siteId", s.code AS "siteCode", to_char(a.month, 'YYYY-MM') AS month, a.text, u.display_name AS "createdBy", a.created_at AS "createdAt"
        FROM committee_annotations a LEFT JOIN sites s ON s.id = a.site_id LEFT JOIN users u ON u.id = a.created_by
       WHERE a.removed_at IS NULL AND ${site === 'network' ? 'TRUE' : 'a.site_id = $1'} ORDER BY a.month, a.created_at`,

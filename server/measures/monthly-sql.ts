@@ -9,6 +9,7 @@
  */
 import type { DataSource, EntityManager } from 'typeorm';
 import type { MonthlyInput } from '../../shared/committee/measures.js';
+import { preparedRows } from '../db/prepared.js';
 
 export type MonthlyInputs = Record<MonthlyInput, number> & {
   siteId: string;
@@ -68,7 +69,7 @@ export async function monthlyInputs(db: DataSource | EntityManager, fromMonth: s
   const inTx = !('transaction' in db) || !!(db as EntityManager).queryRunner?.isTransactionActive;
   const [rows, los] = inTx
     ? [await db.query(INPUT_SQL, params), await db.query(LOS_SQL, params)]
-    : await Promise.all([db.query(INPUT_SQL, params), db.query(LOS_SQL, params)]);
+    : await Promise.all([preparedRows(db as DataSource, INPUT_SQL, params), preparedRows(db as DataSource, LOS_SQL, params)]);
   const freq = new Map<string, [number, number][]>();
   for (const r of los as { siteId: string; month: string; los: number; n: number }[]) {
     const k = `${r.siteId}|${r.month}`;

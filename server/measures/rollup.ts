@@ -5,6 +5,7 @@
  * live from the registry. A 60-month series therefore reads the roll-up rows of the closed
  * months plus the few open months' cases through the surgery-date index.
  */
+import { preparedRows } from '../db/prepared.js';
 import type { DataSource, EntityManager } from 'typeorm';
 import { MONTHLY_INPUTS } from '../../shared/committee/measures.js';
 import { monthlyInputs, type MonthlyInputs } from './monthly-sql.js';
@@ -54,7 +55,7 @@ export async function readMonthly(db: DataSource, from: string, to: string, clos
   const frozenMonths = [...closed].filter((m) => m >= from && m <= to).map(monthStart);
   // The roll-up rows and the live stretches are independent reads: at once.
   const [frozen, ...live] = await Promise.all([
-    frozenMonths.length ? (db.query(ROLLUP_SELECT_SQL, [frozenMonths, siteIds ? [...siteIds] : null]) as Promise<MonthlyInputs[]>) : Promise.resolve([] as MonthlyInputs[]),
+    frozenMonths.length ? preparedRows<MonthlyInputs>(db, ROLLUP_SELECT_SQL, [frozenMonths, siteIds ? [...siteIds] : null]) : Promise.resolve([] as MonthlyInputs[]),
     ...stretches.map(([a, b]) => monthlyInputs(db, a, b, siteIds)),
   ]);
   return [...frozen, ...live.flat()].map((r) => ({ ...r, month: toMonth(r.month) }));

@@ -4,6 +4,7 @@ import type { SessionUser } from '../../shared/auth/user.js';
 import type { Worklist, WorklistItem, WorklistQuery } from '../../shared/registry/worklist.js';
 import { FOLLOW_UP_DAYS } from '../../shared/registry/derived.js';
 import { caseSiteScope } from '../http/scope.js';
+import { preparedRows } from '../db/prepared.js';
 
 interface Ctx { ds: DataSource; today: string; timeZone: string; verifyWaitDays: number }
 
@@ -29,7 +30,7 @@ export async function buildWorklist(c: Ctx, user: SessionUser, q: WorklistQuery)
 
   // count(*) OVER () is computed before LIMIT: the bucket's total in the same query.
   const bucket = async (from: string, cond: string, order: string, extraCols = '', extraParams: unknown[] = []) => {
-    const rows: Record<string, any>[] = await c.ds.query(`${BASE}${extraCols}, count(*) OVER () AS total_count ${from} WHERE ${cond}${scoped} ORDER BY ${order} LIMIT ${lim}`, [...params, ...extraParams]);
+    const rows: Record<string, any>[] = await preparedRows(c.ds, `${BASE}${extraCols}, count(*) OVER () AS total_count ${from} WHERE ${cond}${scoped} ORDER BY ${order} LIMIT ${lim}`, [...params, ...extraParams]);
     return { rows, total: rows.length ? Number(rows[0].total_count) : 0 };
   };
 
@@ -38,7 +39,7 @@ export async function buildWorklist(c: Ctx, user: SessionUser, q: WorklistQuery)
   // registry's triggers, partial index on surgery date); the completeness view, which lists the
   // missing fields, is computed for the page's rows only.
   const missingList = async () => {
-    const rows: Record<string, any>[] = await c.ds.query(
+    const rows: Record<string, any>[] = await preparedRows(c.ds,
       `WITH page AS (SELECT f.case_id, f.surgery_date, count(*) OVER () AS total_count FROM analysis_case_facts f
                       WHERE NOT f.complete AND f.status IN (1, 2)${scoped.replaceAll('c.site_id', 'f.site_id')}
                       ORDER BY f.surgery_date, f.case_id LIMIT ${lim})
@@ -52,7 +53,7 @@ export async function buildWorklist(c: Ctx, user: SessionUser, q: WorklistQuery)
   // The four lists are independent reads: at once, on four pool connections.
   const [missing, due, overdue, waiting] = await Promise.all([
     missingList(),
-    bucket(fromCases, `${open} AND c.surgery_date BETWEEN $1::date - ${FOLLOW_UP_DAYS} AND $1::date - ${FOLLOW_UP_DAYS} + ${q.dueWithinDays}`, 'c.surgery_date, c.id'),
+    bucket(fromCases, `${open} AND c.surgery_date BETWEEN $1::date - ${FOLLOW_UP_DAYS} AND $1::date - ${FOLLOW_UP_DAYS} + $${params.length + 1}::int`, 'c.surgery_date, c.id', '', [q.dueWithinDays]),
     bucket(fromCases, `${open} AND c.surgery_date < $1::date - ${FOLLOW_UP_DAYS}`, 'c.surgery_date, c.id'),
     bucket(fromCases,
       `c.status = 'complete' AND c.created_by IS DISTINCT FROM $${params.length + 1}::uuid AND NOT ($${params.length + 1}::uuid = ANY(c.editors_since_verification)) AND $1::date IS NOT NULL`,
