@@ -24,17 +24,22 @@ export async function buildWorklist(c: Ctx, user: SessionUser, q: WorklistQuery)
   const scoped = where.length ? ` AND ${where.join(' AND ')}` : '';
   params.push(q.limit);
   const lim = `$${params.length}`;
-  // Written so that the (site_id, status, surgery_date) index applies: statuses listed (not
-  // NOT IN) and the window end compared as a surgery-date range.
+  // Written so that the partial indexes apply (migration WorklistIndexes repeats these conditions
+  // word for word; change both together): statuses listed (not NOT IN) and the window end
+  // compared as a surgery-date range.
   const open = `c.status IN ('draft', 'complete', 'verified') AND c.eligible IS DISTINCT FROM false AND c.follow_up_completed_on IS NULL`;
 
-  // count(*) OVER () is computed before LIMIT: the bucket's total in the same query.
-  const bucket = async (from: string, cond: string, order: string, extraCols = '', extraParams: unknown[] = []) => {
-    const rows: Record<string, any>[] = await preparedRows(c.ds, `${BASE}${extraCols}, count(*) OVER () AS total_count ${from} WHERE ${cond}${scoped} ORDER BY ${order} LIMIT ${lim}`, [...params, ...extraParams]);
+  // count(*) OVER () is computed before LIMIT: the bucket's total in the same query. The page's
+  // ids first (an index-only scan of the list's partial index), the shown columns for those rows
+  // only: computed below the LIMIT they cost a row each (0.2 s for 52,000 cases to verify).
+  const bucket = async (cond: string, order: string, extraCols = '', extraParams: unknown[] = []) => {
+    const rows: Record<string, any>[] = await preparedRows(c.ds,
+      `WITH page AS (SELECT c.id, count(*) OVER () AS total_count FROM surgical_cases c WHERE ${cond}${scoped} ORDER BY ${order} LIMIT ${lim})
+       ${BASE}${extraCols}, page.total_count FROM page JOIN surgical_cases c ON c.id = page.id JOIN sites s ON s.id = c.site_id ORDER BY ${order}`,
+      [...params, ...extraParams]);
     return { rows, total: rows.length ? Number(rows[0].total_count) : 0 };
   };
 
-  const fromCases = `FROM surgical_cases c JOIN sites s ON s.id = c.site_id`;
   // Incomplete open cases are found through the fact table's `complete` flag (kept by the
   // registry's triggers, partial index on surgery date); the completeness view, which lists the
   // missing fields, is computed for the page's rows only.
@@ -53,9 +58,9 @@ export async function buildWorklist(c: Ctx, user: SessionUser, q: WorklistQuery)
   // The four lists are independent reads: at once, on four pool connections.
   const [missing, due, overdue, waiting] = await Promise.all([
     missingList(),
-    bucket(fromCases, `${open} AND c.surgery_date BETWEEN $1::date - ${FOLLOW_UP_DAYS} AND $1::date - ${FOLLOW_UP_DAYS} + $${params.length + 1}::int`, 'c.surgery_date, c.id', '', [q.dueWithinDays]),
-    bucket(fromCases, `${open} AND c.surgery_date < $1::date - ${FOLLOW_UP_DAYS}`, 'c.surgery_date, c.id'),
-    bucket(fromCases,
+    bucket(`${open} AND c.surgery_date BETWEEN $1::date - ${FOLLOW_UP_DAYS} AND $1::date - ${FOLLOW_UP_DAYS} + $${params.length + 1}::int`, 'c.surgery_date, c.id', '', [q.dueWithinDays]),
+    bucket(`${open} AND c.surgery_date < $1::date - ${FOLLOW_UP_DAYS}`, 'c.surgery_date, c.id'),
+    bucket(
       `c.status = 'complete' AND c.created_by IS DISTINCT FROM $${params.length + 1}::uuid AND NOT ($${params.length + 1}::uuid = ANY(c.editors_since_verification)) AND $1::date IS NOT NULL`,
       'c.completed_at NULLS FIRST, c.id', `, ($1::date - (c.completed_at AT TIME ZONE '${c.timeZone.replace(/'/g, '')}')::date) AS waiting_days`, [user.id]),
   ]);

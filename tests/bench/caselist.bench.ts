@@ -1,7 +1,9 @@
 /**
  * Issue 10's scale figures for the registry screens on the 1,000,000-case registry: the case
  * list page, sorted and filtered (target < 50 ms; totals above 10,000 rows may be the planner's
- * estimate), each beside a bare SQL of the same page.
+ * estimate), each beside a bare SQL of the same page; and the abstractor's worklist (four lists
+ * read at once, as named prepared statements: after five runs PostgreSQL may keep a generic plan,
+ * which these timings, taken after warm-up, include).
  */
 import type { Bench } from './harness.js';
 
@@ -27,5 +29,13 @@ export default async function caseListBench(b: Bench): Promise<void> {
     const first = await must(p.url);
     b.log(`${p.cohort}: total ${first.totalIsEstimate ? 'about ' : ''}${first.total.toLocaleString('en')}`);
     await b.time('case list page (GET /api/cases)', p.cohort, () => must(p.url), { bareSql: p.sql, target: '< 50 ms' });
+  }
+  for (const key of ['abstractor', 'admin']) {
+    const w = await b.as(key);
+    const url = '/api/worklist?limit=50';
+    await b.time('worklist (GET /api/worklist)', key === 'admin' ? 'every site' : "the abstractor's sites", async () => {
+      const r = await w.get(url);
+      if (r.status !== 200) throw new Error(`${url} -> ${r.status}`);
+    }, { target: 'informative' });
   }
 }

@@ -24,6 +24,8 @@ import type { Unit } from './unit.js';
 @Index('IDX_cases_identifier_hash', { synchronize: false })
 @Index('IDX_cases_followup_open', { synchronize: false })
 @Index('IDX_cases_site_status_ariscat', { synchronize: false })
+@Index('IDX_cases_worklist_open', { synchronize: false })
+@Index('IDX_cases_worklist_complete', { synchronize: false })
 export class SurgicalCase {
   @PrimaryGeneratedColumn('uuid') id: string;
   @Column({ type: 'text', name: 'registry_number', unique: true }) registryNumber: string;
