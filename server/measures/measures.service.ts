@@ -16,14 +16,42 @@ import { readMonthly } from './rollup.js';
 
 export type MeasureWithSettings = MeasureDefinition & MeasureSettings;
 
-export async function measureSettings(ds: DataSource): Promise<Map<MeasureKey, MeasureSettings>> {
-  const rows: { measure_key: MeasureKey; enabled: boolean; bs: string | null; be: string | null }[] = await preparedRows(ds,
-    `SELECT measure_key, enabled, to_char(baseline_start, 'YYYY-MM') AS bs, to_char(baseline_end, 'YYYY-MM') AS be FROM committee_measure_settings`,
-  );
+// The reads every chart makes besides its data, each a scalar subquery returning JSON, so that a
+// chart asks for all of them in one round trip (chartReads) and each caller can ask for one.
+const SETTINGS_SQL = `SELECT coalesce(json_agg(json_build_object('key', measure_key, 'enabled', enabled, 'bs', to_char(baseline_start, 'YYYY-MM'), 'be', to_char(baseline_end, 'YYYY-MM'))), '[]'::json)
+  FROM committee_measure_settings`;
+const CLOSED_SQL = `SELECT coalesce(json_agg(to_char(month, 'YYYY-MM')), '[]'::json) FROM committee_month_closes WHERE closed`;
+const FIRST_MONTH_SQL = `SELECT to_char(min(surgery_date), 'YYYY-MM') FROM surgical_cases WHERE status IN ('complete', 'verified', 'locked')`;
+/** For a site `$1` is its id; the network has no parameter. */
+const labelSql = (site: string) => (site === 'network'
+  ? `SELECT json_build_object('network', value->>'name') FROM settings WHERE key = 'network'`
+  : `SELECT json_build_object('code', code, 'name', name) FROM sites WHERE id = $1`);
+// createdAt as Date.toISOString() writes it (UTC, milliseconds).
+const annotationsSql = (site: string) => `SELECT coalesce(json_agg(json_build_object('id', a.id, 'siteId', a.site_id, 'siteCode', s.code, 'month', to_char(a.month, 'YYYY-MM'), 'text', a.text,
+    'createdBy', u.display_name, 'createdAt', to_char(a.created_at AT TIME ZONE 'UTC', 'YYYY-MM-DD"T"HH24:MI:SS.MS"Z"')) ORDER BY a.month, a.created_at), '[]'::json)
+  FROM committee_annotations a LEFT JOIN sites s ON s.id = a.site_id LEFT JOIN users u ON u.id = a.created_by
+  WHERE a.removed_at IS NULL AND ${site === 'network' ? 'TRUE' : 'a.site_id = $1'}`;
+const siteParams = (site: string) => (site === 'network' ? [] : [site]);
+
+type SettingsJson = { key: MeasureKey; enabled: boolean; bs: string | null; be: string | null }[];
+function toSettings(rows: SettingsJson): Map<MeasureKey, MeasureSettings> {
   const map = new Map<MeasureKey, MeasureSettings>();
   for (const m of MEASURES) map.set(m.key, { enabled: true, baselineStart: null, baselineEnd: null });
-  for (const r of rows) if (map.has(r.measure_key)) map.set(r.measure_key, { enabled: r.enabled, baselineStart: r.bs, baselineEnd: r.be });
+  for (const r of rows) if (map.has(r.key)) map.set(r.key, { enabled: r.enabled, baselineStart: r.bs, baselineEnd: r.be });
   return map;
+}
+function toLabel(site: string, v: { network?: string | null; code?: string; name?: string } | null): string {
+  if (site === 'network') return v?.network ? `${v.network} (network)` : 'Whole network';
+  if (!v) throw notFound('the site');
+  return `${v.name} (${v.code})`;
+}
+async function scalar<T>(ds: DataSource, sql: string, params: unknown[] = []): Promise<T> {
+  const [row] = await preparedRows<{ v: T }>(ds, `SELECT (${sql}) AS v`, params);
+  return row.v;
+}
+
+export async function measureSettings(ds: DataSource): Promise<Map<MeasureKey, MeasureSettings>> {
+  return toSettings(await scalar<SettingsJson>(ds, SETTINGS_SQL));
 }
 
 export async function listMeasures(ds: DataSource): Promise<MeasureWithSettings[]> {
@@ -51,34 +79,28 @@ export async function updateMeasureSettings(ds: DataSource, key: MeasureKey, cha
 }
 
 export async function closedMonths(ds: DataSource): Promise<Set<string>> {
-  const rows = await preparedRows<{ m: string }>(ds, `SELECT to_char(month, 'YYYY-MM') AS m FROM committee_month_closes WHERE closed`);
-  return new Set(rows.map((r) => r.m));
+  return new Set(await scalar<string[]>(ds, CLOSED_SQL));
 }
 
 export async function firstDataMonth(ds: DataSource): Promise<string | null> {
-  const [row] = await preparedRows<{ m: string | null }>(ds, `SELECT to_char(min(surgery_date), 'YYYY-MM') AS m FROM surgical_cases WHERE status IN ('complete', 'verified', 'locked')`);
-  return row?.m ?? null;
+  return scalar<string | null>(ds, FIRST_MONTH_SQL);
 }
 
 export async function siteLabel(ds: DataSource, site: string): Promise<string> {
-  if (site === 'network') {
-    const [row] = await preparedRows<{ name: string | null }>(ds, `SELECT value->>'name' AS name FROM settings WHERE key = 'network'`);
-    return row?.name ? `${row.name} (network)` : 'Whole network';
-  }
-  const [row] = await preparedRows<{ code: string; name: string }>(ds, `SELECT code, name FROM sites WHERE id = $1`, [site]);
-  if (!row) throw notFound('the site');
-  return `${row.name} (${row.code})`;
+  return toLabel(site, await scalar(ds, labelSql(site), siteParams(site)));
 }
 
 /** The notes of a site's charts; the network's charts show the network's notes and every site's (with its code). */
 export async function annotationsFor(ds: DataSource, site: string): Promise<Annotation[]> {
-  const rows = await preparedRows<Annotation & { createdAt: Date }>(ds,
-    `SELECT a.id, a.site_id AS "siteId", s.code AS "siteCode", to_char(a.month, 'YYYY-MM') AS month, a.text, u.display_name AS "createdBy", a.created_at AS "createdAt"
-       FROM committee_annotations a LEFT JOIN sites s ON s.id = a.site_id LEFT JOIN users u ON u.id = a.created_by
-      WHERE a.removed_at IS NULL AND ${site === 'network' ? 'TRUE' : 'a.site_id = $1'} ORDER BY a.month, a.created_at`,
-    site === 'network' ? [] : [site],
-  );
-  return rows.map((r: Annotation & { createdAt: Date }) => ({ ...r, createdAt: new Date(r.createdAt).toISOString() }));
+  return scalar<Annotation[]>(ds, annotationsSql(site), siteParams(site));
+}
+
+/** All of the above for one chart, in one statement (under load each round trip waits its turn). */
+async function chartReads(ds: DataSource, site: string) {
+  const [r] = await preparedRows<{ settings: SettingsJson; closed: string[]; first: string | null; label: never; annotations: Annotation[] }>(ds,
+    `SELECT (${SETTINGS_SQL}) AS settings, (${CLOSED_SQL}) AS closed, (${FIRST_MONTH_SQL}) AS first, (${labelSql(site)}) AS label, (${annotationsSql(site)}) AS annotations`,
+    siteParams(site));
+  return { settings: toSettings(r.settings), closed: new Set(r.closed), firstMonth: r.first, label: toLabel(site, r.label), annotations: r.annotations };
 }
 
 /** One period's numerator, denominator and statistic from summed monthly inputs. */
@@ -101,8 +123,13 @@ export interface ChartContext { timeZone: string; now?: Date }
 
 /** The months a chart covers: from the query, else the baseline start or the first data month, to the current month. */
 export async function chartMonths(ds: DataSource, settings: MeasureSettings, q: Pick<ChartQuery, 'from' | 'to'>, c: ChartContext): Promise<string[]> {
+  return monthsOfChart(settings, q, c, q.from ?? settings.baselineStart ? null : await firstDataMonth(ds));
+}
+
+/** The same with the first data month already read. */
+function monthsOfChart(settings: MeasureSettings, q: Pick<ChartQuery, 'from' | 'to'>, c: ChartContext, firstMonth: string | null): string[] {
   const to = q.to ?? currentMonth(c.timeZone, c.now);
-  const from = q.from ?? settings.baselineStart ?? (await firstDataMonth(ds)) ?? to;
+  const from = q.from ?? settings.baselineStart ?? firstMonth ?? to;
   if (from > to) throw badRequest(`the chart starts (${from}) after it ends (${to})`, 'choose a first month on or before the last');
   let months = monthRange(from, to);
   // Without an explicit start, a stray old case (e.g. a mistyped year) must not break the chart:
@@ -132,12 +159,11 @@ export function periodsFromRows(m: MeasureDefinition, months: string[], view: 'm
 }
 
 export async function measureChart(ds: DataSource, key: MeasureKey, q: ChartQuery, c: ChartContext): Promise<ChartResponse> {
-  // Independent reads at once: each sequential round trip waits its turn under load.
-  const [all, closed, label, annotations] = await Promise.all([measureSettings(ds), closedMonths(ds), siteLabel(ds, q.site), annotationsFor(ds, q.site)]);
-  const settings = all.get(key)!;
-  const months = await chartMonths(ds, settings, q, c);
-  const periods = await measurePeriods(ds, measureByKey(key), q.site, months, q.view, closed);
-  return chartFromPeriods(ds, key, q, settings, periods, { label, annotations });
+  const r = await chartReads(ds, q.site);
+  const settings = r.settings.get(key)!;
+  const months = monthsOfChart(settings, q, c, r.firstMonth);
+  const periods = await measurePeriods(ds, measureByKey(key), q.site, months, q.view, r.closed);
+  return chartFromPeriods(ds, key, q, settings, periods, { label: r.label, annotations: r.annotations });
 }
 
 /** The chart of already-read periods (the packet and the signal e-mails read the inputs once for every measure). */

@@ -1,4 +1,5 @@
 /** Month arithmetic on 'YYYY-MM' strings (the surveillance month) and their first days. */
+import { todayIn } from '../../shared/registry/derived.js';
 
 export function monthStart(month: string): string {
   return `${month}-01`;
@@ -28,7 +29,7 @@ export function quarterOf(month: string): string {
 
 /** The current month in the network time zone. */
 export function currentMonth(timeZone: string, now = new Date()): string {
-  return new Intl.DateTimeFormat('en-CA', { timeZone, year: 'numeric', month: '2-digit' }).format(now).slice(0, 7);
+  return todayIn(timeZone, now).slice(0, 7);
 }
 
 export function monthLabel(period: string): string {

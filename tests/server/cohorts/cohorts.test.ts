@@ -39,6 +39,15 @@ describe('saved cohorts', () => {
     const renamed = await analyst.patch(`/api/cohorts/${body.id}`, { name: 'Owner only, renamed', shared: false });
     expect(renamed.status).toBe(200);
     expect(renamed.body).toMatchObject({ name: 'Owner only, renamed', shared: false });
+    // The change and its audit entry are written by one statement: both are there, with the old values.
+    const trail = await t.ds.query(`SELECT action, old_value::jsonb->>'name' AS old_name, new_value::jsonb->>'name' AS new_name FROM audit_entries WHERE entity = 'saved_cohort' AND entity_id = $1 ORDER BY id`, [body.id]);
+    expect(trail).toEqual([{ action: 'create', old_name: null, new_name: 'Owner only' }, { action: 'update', old_name: 'Owner only', new_name: 'Owner only, renamed' }]);
+    // Renamed onto a name the owner already uses: refused, and neither the row nor the trail changes.
+    await analyst.post('/api/cohorts', { name: 'Taken', filter: {} });
+    const clash = await analyst.patch(`/api/cohorts/${body.id}`, { name: 'Taken' });
+    expect(clash.status).toBe(409);
+    expect((await analyst.get(`/api/cohorts/${body.id}`)).body.name).toBe('Owner only, renamed');
+    expect((await t.ds.query(`SELECT count(*)::int AS n FROM audit_entries WHERE entity = 'saved_cohort' AND entity_id = $1`, [body.id]))[0].n).toBe(2);
     expect((await chair.get(`/api/cohorts/${body.id}`)).status).toBe(404);
     expect((await analyst.delete(`/api/cohorts/${body.id}`)).status).toBe(204);
     expect((await analyst.get(`/api/cohorts/${body.id}`)).status).toBe(404);
