@@ -67,14 +67,15 @@ async function plannerEstimate(ds: DataSource, where: { sql: string; params: unk
 }
 
 /**
- * The list's total: the planner's estimate when it is above ESTIMATE_ABOVE rows (shown as
- * "about"), else an exact count — counting a million rows exactly costs more than the page.
+ * The list's total: exact up to ESTIMATE_ABOVE rows, else the planner's estimate (shown as
+ * "about") — counting a million rows exactly costs more than the page. The exact count is
+ * bounded (it stops at ESTIMATE_ABOVE + 1 rows), so a list of any size costs one count, and the
+ * estimate is asked for only past it: one round trip for the lists people page through.
  */
 async function listTotal(ds: DataSource, where: { sql: string; params: unknown[] }): Promise<{ total: number; estimate: boolean }> {
-  const estimate = await plannerEstimate(ds, where);
-  if (estimate > ESTIMATE_ABOVE) return { total: estimate, estimate: true };
-  const [{ n }] = await preparedRows<{ n: number }>(ds, `SELECT count(*)::int AS n FROM surgical_cases c ${where.sql}`, where.params);
-  return { total: n, estimate: false };
+  const [{ n }] = await preparedRows<{ n: number }>(ds, `SELECT count(*)::int AS n FROM (SELECT 1 FROM surgical_cases c ${where.sql} LIMIT ${ESTIMATE_ABOVE + 1}) x`, where.params);
+  if (n <= ESTIMATE_ABOVE) return { total: n, estimate: false };
+  return { total: Math.max(await plannerEstimate(ds, where), n), estimate: true };
 }
 
 export async function listCases(ds: DataSource, q: CaseListQuery, user: SessionUser): Promise<CaseListPage> {
