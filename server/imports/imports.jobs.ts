@@ -16,7 +16,7 @@ import type { TherapyCheckSettings } from '../../shared/clinical/modalities.js';
 import { buildPlan, type Plan, type PlanUser } from './plan.js';
 import { writePlan } from './writer.js';
 import { deleteImportFile, purgeExpiredUploads, storedFile } from './storage.js';
-import { loadStagedPlan, planBasis, saveStagedPlan } from './staged-plan.js';
+import { loadStagedPlan, planBasis, saveStagedPlan, type ImportRow } from './staged-plan.js';
 import { logger } from '../logger.js';
 import { COMMIT_JOB, DRY_RUN_JOB } from './imports.service.js';
 
@@ -38,7 +38,7 @@ async function loadRow(context: AppContext, importId: string): Promise<Row> {
   return r;
 }
 
-async function plan(context: AppContext, r: Row, user: PlanUser, tools: JobTools, therapySettings: TherapyCheckSettings, retainRows = true): Promise<Plan> {
+async function plan(context: AppContext, r: Row, user: PlanUser, tools: JobTools, therapySettings: TherapyCheckSettings): Promise<Plan> {
   const filePath = storedFile(context.config, r.stored_path);
   if (!filePath) throw new AppError(410, 'file_gone', 'the uploaded file is no longer kept; upload it again');
   return buildPlan({
@@ -47,7 +47,6 @@ async function plan(context: AppContext, r: Row, user: PlanUser, tools: JobTools
     today: todayIn(context.config.NETWORK_TIME_ZONE, new Date()), therapySettings, maxProblems: MAX_STORED_PROBLEMS,
     onProgress: (p) => tools.progress(p),
     checkCancelled: async () => { if (await tools.isCancelled()) throw new JobCancelled(); },
-    retainRows,
   });
 }
 
@@ -57,7 +56,7 @@ registerJobKind(DRY_RUN_JOB, async (job, tools, context) => {
   try {
     const user = await planUser(context, job.createdBy);
     const settings = await therapyCheckSettings(context.ds);
-    const basis = await planBasis(context.ds, r as never, user, settings);
+    const basis = await planBasis(context.ds, r as ImportRow, user, settings);
     const p = await plan(context, r, user, tools, settings);
     if (p.errorCount === 0) await saveStagedPlan(context.config, importId, basis, p);
     await context.ds.query(`UPDATE import_jobs SET status = 'validated', counts = $2, problems = $3, problem_count = $4, validated_at = now(), error = NULL WHERE id = $1`,
@@ -76,7 +75,7 @@ registerJobKind(COMMIT_JOB, async (job, tools, context) => {
   if (r.status === 'committed') return { importId, alreadyCommitted: true };
   const user = await planUser(context, job.createdBy);
   const settings = await therapyCheckSettings(context.ds);
-  const staged = await loadStagedPlan(context.ds, context.config, r as never, user, settings);
+  const staged = await loadStagedPlan(context.ds, context.config, r as ImportRow, user, settings);
   let p: Plan;
   if (staged.plan) {
     p = staged.plan;

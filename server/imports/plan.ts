@@ -48,8 +48,6 @@ export interface PlanInput {
   maxProblems: number;
   onProgress?: (p: { parsed?: number; validated?: number; total?: number }) => Promise<void>;
   checkCancelled?: () => Promise<void>;
-  /** Keep each row's plan (the commit needs it; a dry run of cases alone needs only counts and problems). */
-  retainRows?: boolean;
 }
 
 export interface ExistingCase {
@@ -168,7 +166,6 @@ export async function buildPlan(input: PlanInput): Promise<Plan> {
   const total = input.sheets.reduce((n, s) => n + s.rows, 0);
   const opts = { decimal: input.decimal, today: input.today };
   // Therapy and outcome rows are checked against their case row, so those need the case plans.
-  const retain = input.retainRows !== false || input.sheets.some((s) => s.kind !== 'cases');
   let duplicates = 0;
 
   const progress = async (force = false) => {
@@ -256,7 +253,6 @@ export async function buildPlan(input: PlanInput): Promise<Plan> {
       for (const w of warnings) sink.add(problemAt(sheet, p.parsed.row, colOf([w.path]), p.parsed.raw[w.path], w.message, 'this is a warning: the row will be imported; check the values', 'warning'));
       const action: CasePlan['action'] = !ex ? 'new' : changes.length ? 'update' : 'unchanged';
       counts.cases[action === 'new' ? 'new' : action === 'update' ? 'updated' : 'unchanged']++;
-      if (!retain) continue;
       cases.push({ row: p.parsed.row, key: p.key, action, siteId: p.site.id, siteCode: p.site.code, fields: fields as CaseFields, existing: ex, changes, identifierHash: p.hash ?? ex?.identifierHash ?? null, possibleDuplicate, ariscat: ariscat ? { points: ariscat.points, riskClass: ariscat.riskClass } : null, warnings });
       if (p.key) caseIndexByKey.set(p.key, cases.length - 1);
     }

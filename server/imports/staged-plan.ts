@@ -39,7 +39,8 @@ const CLOCK_MARGIN = `interval '10 minutes'`;
 
 const planPath = (config: Pick<Config, 'DATA_DIR'>, importId: string) => path.join(uploadDir(config), planFileName(importId));
 
-interface ImportRow { id: string; file_hash: string; mapping: unknown; decimal: string }
+/** The columns of an import_jobs row a plan's basis reads. */
+export interface ImportRow { id: string; file_hash: string; mapping: unknown; decimal: string }
 
 /** The basis of a plan about to be built (or to check a stored one against). */
 export async function planBasis(db: Db, r: ImportRow, user: PlanUser, settings: TherapyCheckSettings): Promise<PlanBasis> {
