@@ -12,8 +12,12 @@ import connectPgSimple from 'connect-pg-simple';
 import type pg from 'pg';
 
 type Entry = { json: string; userId: string | null; at: number };
-/** A store's cache and its write count: a read that overlapped a write is not cached (it may predate it). */
-type Cache = { entries: Map<string, Entry>; writes: number };
+/**
+ * A store's cache with write counters: a read that overlapped a write of the same session, or a
+ * forget of many (`epoch`), is not cached (it may predate the change). Counting per session keeps
+ * one user's once-a-minute refresh from spoiling everyone else's reads in flight.
+ */
+type Cache = { entries: Map<string, Entry>; writes: Map<string, number>; epoch: number };
 type SessionData = session.SessionData;
 type Callback<T> = (err?: unknown, value?: T | null) => void;
 
@@ -27,22 +31,28 @@ const userOf = (s: SessionData): string | null => {
 
 export function createSessionStore(opts: { pool: pg.Pool; ttlMs: number; pruneSeconds: number }): session.Store {
   const PgStore = connectPgSimple(session);
-  const cache: Cache = { entries: new Map(), writes: 0 };
+  const cache: Cache = { entries: new Map(), writes: new Map(), epoch: 0 };
   caches.add(cache);
-  const drop = (sid: string) => { cache.writes += 1; cache.entries.delete(sid); };
+  const drop = (sid: string) => {
+    // Bounded like the entries; clearing moves the epoch, so no read in flight is kept after it.
+    if (cache.writes.size > 10_000) { cache.writes.clear(); cache.epoch += 1; }
+    cache.writes.set(sid, (cache.writes.get(sid) ?? 0) + 1);
+    cache.entries.delete(sid);
+  };
   class CachedPgStore extends PgStore {
     override get(sid: string, cb: Callback<SessionData>): void {
       const hit = cache.entries.get(sid);
       // A parsed copy per request: express-session mutates the object it is given.
       if (hit && Date.now() - hit.at < opts.ttlMs) return cb(null, JSON.parse(hit.json) as SessionData);
       const at = Date.now();
-      const writes = cache.writes;
+      const epoch = cache.epoch;
+      const writes = cache.writes.get(sid) ?? 0;
       super.get(sid, (err?: unknown, sess?: SessionData | null) => {
         // express-session reads an error with code ENOENT as "no such session" (file stores) and
         // starts a new one; over the Unix socket a stopped database is "connect ENOENT", which
         // must stay an error (503), not sign the user out.
         if ((err as { code?: string } | undefined)?.code === 'ENOENT') err = Object.assign(new Error((err as Error).message), { code: '08006', cause: err });
-        if (!err && sess && opts.ttlMs > 0 && cache.writes === writes) {
+        if (!err && sess && opts.ttlMs > 0 && cache.epoch === epoch && (cache.writes.get(sid) ?? 0) === writes) {
           if (cache.entries.size > 10_000) cache.entries.clear(); // a bound far above the staff signed in at once
           cache.entries.set(sid, { json: JSON.stringify(sess), userId: userOf(sess), at });
         }
@@ -69,7 +79,7 @@ export function createSessionStore(opts: { pool: pg.Pool; ttlMs: number; pruneSe
 /** Drops the cached sessions of one user (after SQL ended them), or every cached session. */
 export function forgetCachedSessions(userId?: string): void {
   for (const cache of caches) {
-    cache.writes += 1;
+    cache.epoch += 1;
     if (!userId) { cache.entries.clear(); continue; }
     for (const [sid, e] of cache.entries) if (e.userId === userId) cache.entries.delete(sid);
   }
