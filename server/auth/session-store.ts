@@ -21,6 +21,9 @@ type Cache = { entries: Map<string, Entry>; writes: Map<string, number>; epoch: 
 type SessionData = session.SessionData;
 type Callback<T> = (err?: unknown, value?: T | null) => void;
 
+/** A bound on each cache of signed-in users and sessions, far above the staff signed in at once. */
+export const CACHE_MAX_ENTRIES = 10_000;
+
 /** Every live store's cache in this process (tests build several apps). */
 const caches = new Set<Cache>();
 
@@ -35,7 +38,7 @@ export function createSessionStore(opts: { pool: pg.Pool; ttlMs: number; pruneSe
   caches.add(cache);
   const drop = (sid: string) => {
     // Bounded like the entries; clearing moves the epoch, so no read in flight is kept after it.
-    if (cache.writes.size > 10_000) { cache.writes.clear(); cache.epoch += 1; }
+    if (cache.writes.size > CACHE_MAX_ENTRIES) { cache.writes.clear(); cache.epoch += 1; }
     cache.writes.set(sid, (cache.writes.get(sid) ?? 0) + 1);
     cache.entries.delete(sid);
   };
@@ -53,7 +56,7 @@ export function createSessionStore(opts: { pool: pg.Pool; ttlMs: number; pruneSe
         // must stay an error (503), not sign the user out.
         if ((err as { code?: string } | undefined)?.code === 'ENOENT') err = Object.assign(new Error((err as Error).message), { code: '08006', cause: err });
         if (!err && sess && opts.ttlMs > 0 && cache.epoch === epoch && (cache.writes.get(sid) ?? 0) === writes) {
-          if (cache.entries.size > 10_000) cache.entries.clear(); // a bound far above the staff signed in at once
+          if (cache.entries.size > CACHE_MAX_ENTRIES) cache.entries.clear();
           cache.entries.set(sid, { json: JSON.stringify(sess), userId: userOf(sess), at });
         }
         cb(err, sess);

@@ -1,7 +1,7 @@
 import type { DataSource } from 'typeorm';
 import type { SessionUser } from '../../shared/auth/user.js';
 import type { Role } from '../../shared/auth/roles.js';
-import { forgetCachedSessions } from './session-store.js';
+import { CACHE_MAX_ENTRIES, forgetCachedSessions } from './session-store.js';
 
 /** Loads the signed-in user's current roles and sites (on every request: a change applies at once). */
 export async function loadSessionUser(ds: DataSource, id: string, demoMode: boolean): Promise<SessionUser | null> {
@@ -47,7 +47,7 @@ export async function cachedSessionUser(ds: DataSource, id: string, demoMode: bo
   if (hit && now - hit.at < ttlMs) return hit.user;
   const forgets = cache.forgets;
   const user = await loadSessionUser(ds, id, demoMode);
-  if (cache.entries.size > 10_000) cache.entries.clear(); // a bound, far above the number of staff signed in at once
+  if (cache.entries.size > CACHE_MAX_ENTRIES) cache.entries.clear();
   if (ttlMs > 0 && cache.forgets === forgets) cache.entries.set(id, { user, at: now });
   return user;
 }

@@ -6,6 +6,7 @@
 import http from 'node:http';
 import type { AddressInfo } from 'node:net';
 import type { Bench } from './harness.js';
+import { keptAliveClient } from './http-client.js';
 import { encodeCohortFilter, type CohortFilter } from '../../shared/analysis/cohort-filter.js';
 import { cellTotalsSql, losFrequenciesSql } from '../../server/analysis/queries.js';
 import { networkFilterFor } from '../../server/analysis/analysis.service.js';
@@ -65,12 +66,9 @@ async function platformProbe(b: Bench, sql: string): Promise<() => Promise<void>
   await new Promise<void>((r) => server.once('listening', () => r()));
   server.unref();
   const { port } = server.address() as AddressInfo;
-  const agent = new http.Agent({ keepAlive: true, maxSockets: 1 });
-  return () => new Promise<void>((resolve, reject) => {
-    http.request({ host: '127.0.0.1', port, path: '/', agent }, (res) => {
-      res.resume();
-      res.on('end', () => (res.statusCode === 200 ? resolve() : reject(new Error(`platform probe: ${res.statusCode}`))));
-      res.on('error', reject);
-    }).on('error', reject).end();
-  });
+  const client = keptAliveClient(`http://127.0.0.1:${port}`);
+  return async () => {
+    const r = await client.get('/');
+    if (r.status !== 200) throw new Error(`platform probe: ${r.status}`);
+  };
 }

@@ -14,7 +14,6 @@
 import { createHash } from 'node:crypto';
 import { execFileSync } from 'node:child_process';
 import fs from 'node:fs';
-import http from 'node:http';
 import path from 'node:path';
 import type { AddressInfo } from 'node:net';
 import pg from 'pg';
@@ -31,6 +30,7 @@ import type { DataSource } from 'typeorm';
 import { DEMO_PASSWORD } from '../../server/db/seed/scenario.js';
 import type { CohortFilter } from '../../shared/analysis/cohort-filter.js';
 import { loadRegistry } from './load-registry.js';
+import { keptAliveClient, type HttpClient } from './http-client.js';
 
 export const BENCH_DB = 'alveolog_bench';
 export const BENCH_CASES = Number(process.env.BENCH_CASES ?? 1_000_000);
@@ -60,9 +60,7 @@ export interface TimeOptions {
   target?: string;
 }
 
-export interface HttpClient {
-  get(pathAndQuery: string): Promise<{ status: number; body: unknown; bytes: number }>;
-}
+export type { HttpClient };
 
 export interface Bench {
   /** App-role DataSource of the benchmark database (the app's own). */
@@ -150,31 +148,9 @@ async function signedInClient(baseUrl: string, email: string): Promise<HttpClien
   const r2 = await fetch(`${baseUrl}/api/auth/login`, { method: 'POST', headers: { 'content-type': 'application/json', 'x-csrf-token': csrfToken, cookie }, body: JSON.stringify({ email, password: DEMO_PASSWORD }) });
   keep(r2);
   if (r2.status !== 200) throw new Error(`bench sign-in as ${email} failed: ${r2.status} ${await r2.text()}`);
-  // Timed requests go through node:http on one kept-alive socket: the thinnest client, as the
-  // bare SQL goes through pg (fetch ran in this same event loop and added about 1 ms each).
-  const agent = new http.Agent({ keepAlive: true, maxSockets: 1 });
-  const { hostname, port } = new URL(baseUrl);
-  return {
-    get(p) {
-      return new Promise((resolve, reject) => {
-        const req = http.request({ host: hostname, port, path: p, agent, headers: { cookie } }, (res) => {
-          const chunks: Buffer[] = [];
-          res.on('data', (c: Buffer) => chunks.push(c));
-          res.on('error', reject);
-          res.on('end', () => {
-            const buf = Buffer.concat(chunks);
-            const type = String(res.headers['content-type'] ?? '');
-            try {
-              resolve({ status: res.statusCode ?? 0, body: type.includes('json') ? JSON.parse(buf.toString('utf8')) : buf, bytes: buf.length });
-            } catch (e) { reject(e); }
-          });
-        });
-        req.on('error', reject);
-        req.end();
-      });
-    },
-  };
+  return keptAliveClient(baseUrl, { cookie });
 }
+
 
 const median = (xs: number[]) => { const s = [...xs].sort((a, b) => a - b); const m = Math.floor(s.length / 2); return s.length % 2 ? s[m] : (s[m - 1] + s[m]) / 2; };
 const p95 = (xs: number[]) => { const s = [...xs].sort((a, b) => a - b); return s[Math.min(s.length - 1, Math.ceil(0.95 * s.length) - 1)]; };
