@@ -2,7 +2,7 @@
  * Research export requests: create, list, read, the k-anonymity report, the approver's decision,
  * and the audit log of the area. Plain functions (no req/res); the router parses and sends.
  */
-import { todayIn as sharedTodayIn } from '../../shared/registry/derived.js';
+import { todayIn } from '../../shared/registry/derived.js';
 import type { DataSource } from 'typeorm';
 import type { SessionUser } from '../../shared/auth/user.js';
 import { CohortFilterSchema, type CohortFilter } from '../../shared/analysis/cohort-filter.js';
@@ -24,9 +24,6 @@ import { classSizesSql, countSql } from './query.js';
 export const EXPORT_JOB_KIND = 'research-export';
 
 type Actor = Pick<AuditInput, 'actorId' | 'actorEmail' | 'ip'>;
-
-/** Today's date (YYYY-MM-DD) in the network's time zone. */
-export const todayIn = (timeZone: string, now = new Date()): string => sharedTodayIn(timeZone, now);
 
 function assertDuaCurrent(dua: { reference: string; expiresOn: string } | null, level: string, config: Config, path = 'dua.expiresOn') {
   if (level !== 'limited') return;

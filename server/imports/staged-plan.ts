@@ -10,13 +10,12 @@
  * commit, abandonment or retention.
  */
 import fs from 'node:fs';
-import path from 'node:path';
 import v8 from 'node:v8';
 import type { DataSource, EntityManager } from 'typeorm';
 import type { TherapyCheckSettings } from '../../shared/clinical/modalities.js';
 import type { Config } from '../config.js';
 import type { Plan, PlanUser } from './plan.js';
-import { planFileName, uploadDir } from './storage.js';
+import { planFilePath as planPath } from './storage.js';
 
 type Db = DataSource | EntityManager;
 
@@ -36,8 +35,6 @@ interface StagedFile { format: 1; basis: PlanBasis; plan: Plan }
 
 /** Cases written this long before planning began still count as "written since" (long transactions). */
 const CLOCK_MARGIN = `interval '10 minutes'`;
-
-const planPath = (config: Pick<Config, 'DATA_DIR'>, importId: string) => path.join(uploadDir(config), planFileName(importId));
 
 /** The columns of an import_jobs row a plan's basis reads. */
 export interface ImportRow { id: string; file_hash: string; mapping: unknown; decimal: string }

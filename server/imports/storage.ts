@@ -10,6 +10,7 @@ import { logger } from '../logger.js';
 
 /** The dry run's stored plan of an import (staged-plan.ts), kept beside its upload. */
 export const planFileName = (importId: string) => `${path.basename(importId)}.plan`;
+export const planFilePath = (config: Pick<Config, 'DATA_DIR'>, importId: string) => path.join(uploadDir(config), planFileName(importId));
 
 export function uploadDir(config: Pick<Config, 'DATA_DIR'>): string {
   const dir = path.resolve(config.DATA_DIR, 'imports');
@@ -25,7 +26,7 @@ export async function deleteImportFile(ds: DataSource, config: Pick<Config, 'DAT
     await fs.promises.rm(full, { force: true });
   }
   // The dry run's stored plan (staged-plan.ts) goes with its upload.
-  await fs.promises.rm(path.join(uploadDir(config), planFileName(importId)), { force: true });
+  await fs.promises.rm(planFilePath(config, importId), { force: true });
   await ds.query(`UPDATE import_jobs SET stored_path = NULL, file_deleted_at = COALESCE(file_deleted_at, now()) WHERE id = $1`, [importId]);
 }
 

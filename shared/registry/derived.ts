@@ -102,7 +102,7 @@ export function deriveCase(c: DerivableCase, episodes: readonly DerivableEpisode
 /** Today's calendar date in a time zone (YYYY-MM-DD); the caller passes the clock. */
 // Building an Intl.DateTimeFormat costs about 0.1 ms; one per time zone is kept (many requests ask for "today").
 const dayFormats = new Map<string, Intl.DateTimeFormat>();
-export function todayIn(timeZone: string, now: Date): string {
+export function todayIn(timeZone: string, now = new Date()): string {
   let f = dayFormats.get(timeZone);
   if (!f) dayFormats.set(timeZone, (f = new Intl.DateTimeFormat('en-CA', { timeZone, year: 'numeric', month: '2-digit', day: '2-digit' })));
   return f.format(now);
