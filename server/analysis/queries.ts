@@ -7,6 +7,7 @@ import type { DataSource } from 'typeorm';
 import type { CohortFilter } from '../../shared/analysis/cohort-filter.js';
 import { OUTCOME_COLUMNS, OUTCOME_FLAGS, ARISCAT_CODES, STATUS_CODES, codeOf } from './facts.js';
 import { SqlParams, cohortCells, usesOnlyRollupDimensions } from './cohort-sql.js';
+import { poolRows } from '../db/pool-rows.js';
 import type { OutcomeFlag } from '../../shared/analysis/measures.js';
 
 export type GroupKey = 'site' | 'month' | 'quarter' | 'ariscat' | 'therapy';
@@ -66,7 +67,7 @@ function toTotals(row: Record<string, unknown>, groupBy: readonly GroupKey[]): C
 /** Summed counts of a cohort, per combination of the groups asked for (no row when a group has no case). */
 export async function cellTotals(ds: DataSource, filter: CohortFilter, groupBy: readonly GroupKey[], restrictSites?: readonly string[] | null): Promise<CellTotals[]> {
   const q = cellTotalsSql(filter, groupBy, restrictSites);
-  const rows = (await ds.query(q.text, q.values)) as Record<string, unknown>[];
+  const rows = await poolRows<Record<string, unknown>>(ds, q.text, q.values);
   return rows.filter((r) => Number(r.n ?? 0) > 0).map((r) => toTotals(r, groupBy));
 }
 
@@ -80,7 +81,7 @@ export function losFrequenciesSql(filter: CohortFilter, restrictSites?: readonly
 /** Length-of-stay frequency table (days -> cases) of the cohort's discharged cases. */
 export async function losFrequencies(ds: DataSource, filter: CohortFilter, restrictSites?: readonly string[] | null): Promise<{ value: number; count: number }[]> {
   const q = losFrequenciesSql(filter, restrictSites);
-  const rows = (await ds.query(q.text, q.values)) as { value: number; count: number }[];
+  const rows = await poolRows<{ value: number; count: number }>(ds, q.text, q.values);
   return rows.map((r) => ({ value: Number(r.value), count: Number(r.count) }));
 }
 

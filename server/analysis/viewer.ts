@@ -6,6 +6,7 @@
  */
 import { createHash } from 'node:crypto';
 import type { DataSource } from 'typeorm';
+import { poolRows } from '../db/pool-rows.js';
 import type { SessionUser } from '../../shared/auth/user.js';
 import type { SiteVisibility } from '../../shared/analysis/results.js';
 
@@ -31,7 +32,7 @@ export interface SiteLabel { id: string; label: string; key: string }
  * the order of a hash of the site id, so they are stable but reveal neither code nor name.
  */
 export async function siteLabels(ds: DataSource, viewer: Viewer): Promise<Map<string, SiteLabel>> {
-  const rows = (await ds.query(`SELECT id::text AS id, code, name FROM sites ORDER BY code`)) as { id: string; code: string; name: string }[];
+  const rows = await poolRows<{ id: string; code: string; name: string }>(ds, `SELECT id::text AS id, code, name FROM sites ORDER BY code`);
   const map = new Map<string, SiteLabel>();
   if (viewer.visibility === 'coded') {
     const order = [...rows].sort((a, b) => hash(a.id).localeCompare(hash(b.id)));

@@ -12,7 +12,7 @@
  */
 import { createHash } from 'node:crypto';
 import type { DataSource } from 'typeorm';
-import type pg from 'pg';
+import { poolOf } from './pool-rows.js';
 
 const names = new Map<string, string>();
 /** A bound on distinct texts: past it, statements run unnamed (a code path building unbounded text). */
@@ -29,7 +29,7 @@ function nameOf(text: string): string | null {
 
 /** Rows of a read run as a named prepared statement on the DataSource's pool. */
 export async function preparedRows<T = Record<string, any>>(ds: DataSource, text: string, params: readonly unknown[] = []): Promise<T[]> {
-  const pool = (ds.driver as unknown as { master?: pg.Pool }).master;
+  const pool = poolOf(ds);
   if (!pool) return ds.query(text, [...params]);
   const name = nameOf(text);
   const r = await pool.query(name ? { name, text, values: [...params] } : { text, values: [...params] });
